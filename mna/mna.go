@@ -1,0 +1,339 @@
+// Package mna writes the modified nodal equations of a circuit: the one
+// stamping layer that the DC solver and the AC stage share.
+//
+// The equations are
+//
+//	(G + s·C)·x = b
+//
+// where x holds the node voltages (V, ground excluded) followed by branch
+// currents (A) of the parts that need one: voltage sources, inductors,
+// voltage-controlled and current-controlled voltage sources, and any part
+// whose current controls a cccs or ccvs. Every node row is Kirchhoff's
+// current law written as the sum of currents leaving the node through the
+// parts, equal to the current injected by independent sources (b). A
+// branch current is the current into the part's first-named terminal,
+// so a voltage source that delivers power has a negative current.
+//
+// At DC (s = 0) a capacitor is open and an inductor is a short. Package
+// mna stamps linear parts only; the nonlinear devices (diode, bjt,
+// mosfet) are left to the DC solver, which stamps their Newton companion
+// through the same primitives (Conductance, Transconductance, Current).
+package mna
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+
+	"tangent/cases"
+)
+
+// Adder receives matrix coefficients: Add(i, j, v) adds v to entry (i, j).
+// Stamping primitives never call it with a negative index (ground).
+type Adder interface {
+	Add(i, j int, v float64)
+}
+
+// Entry is one coefficient of a matrix in triplet form. Entries with the
+// same Row and Col add.
+type Entry struct {
+	Row, Col int
+	Value    float64
+}
+
+// Triplets is an Adder that records entries in order.
+type Triplets []Entry
+
+// Add appends the entry.
+func (t *Triplets) Add(i, j int, v float64) { *t = append(*t, Entry{i, j, v}) }
+
+// Unknown names one unknown of the equations.
+type Unknown struct {
+	Name   string // node name, or the part name for a branch current
+	Branch bool   // true: a branch current (A); false: a node voltage (V)
+}
+
+// Layout numbers the unknowns. Ground is index −1 and is not an unknown.
+type Layout struct {
+	Unknowns []Unknown
+	nodes    map[string]int
+	branches map[string]int
+}
+
+// NewLayout returns an empty layout.
+func NewLayout() *Layout {
+	return &Layout{nodes: map[string]int{}, branches: map[string]int{}}
+}
+
+// Size returns the number of unknowns.
+func (l *Layout) Size() int { return len(l.Unknowns) }
+
+// Node returns the index of a node voltage, −1 for ground. ok is false for
+// a node the layout does not know.
+func (l *Layout) Node(name string) (index int, ok bool) {
+	if name == cases.Ground {
+		return -1, true
+	}
+	i, ok := l.nodes[name]
+	return i, ok
+}
+
+// Branch returns the index of a part's branch current.
+func (l *Layout) Branch(part string) (index int, ok bool) {
+	i, ok := l.branches[part]
+	return i, ok
+}
+
+// AddNode adds a node (if new) and returns its index; ground gives −1.
+func (l *Layout) AddNode(name string) int {
+	if name == cases.Ground {
+		return -1
+	}
+	if i, ok := l.nodes[name]; ok {
+		return i
+	}
+	i := len(l.Unknowns)
+	l.Unknowns = append(l.Unknowns, Unknown{Name: name})
+	l.nodes[name] = i
+	return i
+}
+
+// AddBranch adds a branch current for a part and returns its index.
+func (l *Layout) AddBranch(part string) int {
+	if i, ok := l.branches[part]; ok {
+		return i
+	}
+	i := len(l.Unknowns)
+	l.Unknowns = append(l.Unknowns, Unknown{Name: part, Branch: true})
+	l.branches[part] = i
+	return i
+}
+
+// System is the linear part of a circuit's equations.
+type System struct {
+	Layout *Layout
+	// Terminals maps a part name to the unknown index of each of its
+	// terminals, in cases.Terminals order (−1 for ground). A part whose
+	// current controls another is moved behind a zero-volt sense branch,
+	// so its first terminal here is an internal node.
+	Terminals map[string][]int
+	G, C      Triplets     // coefficients of the linear parts
+	DC        []float64    // b for the DC values of the independent sources
+	AC        []complex128 // b for the AC values (magnitude·exp(j·phase))
+}
+
+// senseSuffix names the internal node between a controlling part and its
+// first terminal. A colon cannot be confused with a node of the file in
+// practice, and Build checks for a clash.
+const senseSuffix = ":sense"
+
+// Build numbers the unknowns of circuit c and stamps every linear part.
+// Devices (diode, bjt, mosfet) get their terminal nodes numbered but are
+// not stamped. Nodes are numbered in c.Nodes order, then branch currents in
+// part order, so the same circuit always gives the same layout.
+func Build(c *cases.Circuit) (*System, error) {
+	l := NewLayout()
+	for _, n := range c.Nodes {
+		l.AddNode(n)
+	}
+	controls := map[string]bool{}
+	for _, p := range c.Parts {
+		if p.Kind == cases.CCCS || p.Kind == cases.CCVS {
+			controls[p.Control] = true
+		}
+	}
+	s := &System{Layout: l, Terminals: map[string][]int{}}
+	// Terminal indices, with sense nodes for controlling parts.
+	for _, p := range c.Parts {
+		idx := make([]int, len(p.Nodes))
+		for i, n := range p.Nodes {
+			j, ok := l.Node(n)
+			if !ok {
+				j = l.AddNode(n)
+			}
+			idx[i] = j
+		}
+		if controls[p.Name] && !hasBranch(p.Kind) {
+			name := p.Name + senseSuffix
+			if _, clash := l.Node(name); clash {
+				return nil, fmt.Errorf("mna: internal node %q clashes with a node of the circuit", name)
+			}
+			idx[0] = l.AddNode(name)
+		}
+		s.Terminals[p.Name] = idx
+	}
+	for _, p := range c.Parts {
+		if hasBranch(p.Kind) || controls[p.Name] {
+			l.AddBranch(p.Name)
+		}
+	}
+	n := l.Size()
+	s.DC = make([]float64, n)
+	s.AC = make([]complex128, n)
+	for _, p := range c.Parts {
+		if err := s.stamp(c, p, controls[p.Name]); err != nil {
+			return nil, err
+		}
+	}
+	return s, nil
+}
+
+// hasBranch reports whether a part kind carries its own branch current.
+func hasBranch(k cases.Kind) bool {
+	switch k {
+	case cases.VoltageSource, cases.Inductor, cases.VCVS, cases.CCVS:
+		return true
+	}
+	return false
+}
+
+func (s *System) stamp(c *cases.Circuit, p *cases.Part, control bool) error {
+	t := s.Terminals[p.Name]
+	if control && !hasBranch(p.Kind) {
+		// Zero-volt sense source from the real first terminal to the
+		// internal node: its branch current is the part's current.
+		k, _ := s.Layout.Branch(p.Name)
+		real, _ := s.Layout.Node(p.Nodes[0])
+		VoltageBranch(&s.G, real, t[0], k)
+	}
+	switch p.Kind {
+	case cases.Resistor:
+		Conductance(&s.G, t[0], t[1], 1/p.Value)
+	case cases.Capacitor:
+		Conductance(&s.C, t[0], t[1], p.Value)
+	case cases.Inductor:
+		k, _ := s.Layout.Branch(p.Name)
+		VoltageBranch(&s.G, t[0], t[1], k)
+		s.C.Add(k, k, -p.Value)
+	case cases.VoltageSource:
+		k, _ := s.Layout.Branch(p.Name)
+		VoltageBranch(&s.G, t[0], t[1], k)
+		s.DC[k] += p.DC
+		s.AC[k] += phasor(p.AC, p.ACPhase)
+	case cases.CurrentSource:
+		Current(s.DC, t[0], t[1], p.DC)
+		ac := phasor(p.AC, p.ACPhase)
+		if t[0] >= 0 {
+			s.AC[t[0]] -= ac
+		}
+		if t[1] >= 0 {
+			s.AC[t[1]] += ac
+		}
+	case cases.VCVS:
+		k, _ := s.Layout.Branch(p.Name)
+		VoltageBranch(&s.G, t[0], t[1], k)
+		addIf(&s.G, k, t[2], -p.Value)
+		addIf(&s.G, k, t[3], p.Value)
+	case cases.VCCS:
+		Transconductance(&s.G, t[0], t[1], t[2], t[3], p.Value)
+	case cases.CCCS:
+		kc, ok := s.Layout.Branch(p.Control)
+		if !ok {
+			return fmt.Errorf("mna: %s: control part %q has no current", p.Name, p.Control)
+		}
+		addIf(&s.G, t[0], kc, p.Value)
+		addIf(&s.G, t[1], kc, -p.Value)
+	case cases.CCVS:
+		kc, ok := s.Layout.Branch(p.Control)
+		if !ok {
+			return fmt.Errorf("mna: %s: control part %q has no current", p.Name, p.Control)
+		}
+		k, _ := s.Layout.Branch(p.Name)
+		VoltageBranch(&s.G, t[0], t[1], k)
+		s.G.Add(k, kc, -p.Value)
+	case cases.Diode, cases.BJT, cases.MOSFET:
+		// stamped by the DC solver; replaced by linear parts for AC
+	default:
+		return fmt.Errorf("mna: %s: unknown part kind %q", p.Name, p.Kind)
+	}
+	return nil
+}
+
+func phasor(mag, phase float64) complex128 {
+	if mag == 0 {
+		return 0
+	}
+	return cmplx.Rect(mag, phase)
+}
+
+func addIf(m Adder, i, j int, v float64) {
+	if i >= 0 && j >= 0 {
+		m.Add(i, j, v)
+	}
+}
+
+// Conductance stamps a two-terminal admittance g between nodes a and b
+// (a current g·(Va − Vb) from a to b). With m = C it stamps a capacitance.
+func Conductance(m Adder, a, b int, g float64) {
+	addIf(m, a, a, g)
+	addIf(m, b, b, g)
+	addIf(m, a, b, -g)
+	addIf(m, b, a, -g)
+}
+
+// Transconductance stamps a current gm·(V(cp) − V(cm)) that leaves node
+// from, passes through the source and enters node to.
+func Transconductance(m Adder, from, to, cp, cm int, gm float64) {
+	addIf(m, from, cp, gm)
+	addIf(m, from, cm, -gm)
+	addIf(m, to, cp, -gm)
+	addIf(m, to, cm, gm)
+}
+
+// VoltageBranch stamps the incidence of branch k between nodes plus and
+// minus: the branch current enters at plus and leaves at minus (KCL
+// columns), and row k reads V(plus) − V(minus) = b[k] plus whatever the
+// caller adds to row k.
+func VoltageBranch(m Adder, plus, minus, k int) {
+	addIf(m, plus, k, 1)
+	addIf(m, minus, k, -1)
+	addIf(m, k, plus, 1)
+	addIf(m, k, minus, -1)
+}
+
+// Current adds to the right-hand side b an independent current i that
+// leaves node from, passes through the source and enters node to.
+func Current(b []float64, from, to int, i float64) {
+	if from >= 0 {
+		b[from] -= i
+	}
+	if to >= 0 {
+		b[to] += i
+	}
+}
+
+// Voltage returns V(a) − V(b) from a solution vector; −1 is ground.
+func Voltage(x []float64, a, b int) float64 {
+	return at(x, a) - at(x, b)
+}
+
+func at(x []float64, i int) float64 {
+	if i < 0 {
+		return 0
+	}
+	return x[i]
+}
+
+// PartCurrent returns the DC current into the first terminal of a linear
+// part, from a DC solution x (capacitors carry none). It returns NaN for a
+// device, whose current the DC solver knows.
+func (s *System) PartCurrent(p *cases.Part, x []float64) float64 {
+	if k, ok := s.Layout.Branch(p.Name); ok {
+		return x[k]
+	}
+	t := s.Terminals[p.Name]
+	switch p.Kind {
+	case cases.Resistor:
+		return Voltage(x, t[0], t[1]) / p.Value
+	case cases.Capacitor:
+		return 0
+	case cases.CurrentSource:
+		return p.DC
+	case cases.VCCS:
+		return p.Value * Voltage(x, t[2], t[3])
+	case cases.CCCS:
+		kc, _ := s.Layout.Branch(p.Control)
+		return p.Value * x[kc]
+	}
+	return math.NaN()
+}
