@@ -1,10 +1,3 @@
-// Package cases reads tangent case files: TOML documents that describe one
-// circuit (its parts, device models, ports and the transfers to analyse) and
-// its variants. Decoding validates everything before any analysis runs;
-// errors name the file, the line, the key and the expected form.
-//
-// All values are held in SI units (ohm, farad, henry, volt, ampere, siemens,
-// kelvin, metre, second). Engineering prefixes exist only in the file.
 package cases
 
 import "math"
@@ -83,6 +76,14 @@ type Circuit struct {
 	Solver SolverOptions
 	// Warnings found during validation (e.g. a node with one connection).
 	Warnings []Diagnostic
+	// Variant is the name of the variant applied by ApplyVariant, or ""
+	// for the base case.
+	Variant string
+
+	// src is the decoded source (TOML tree and key lines), kept so that
+	// ApplyVariant and WithOverrides can re-validate; nil for a Circuit
+	// built in code.
+	src *rawCase
 }
 
 // Part is one element of the circuit.
@@ -154,8 +155,8 @@ func (m *Model) Param(key string, def float64) float64 {
 // Port is a pair of nodes, or the terminals of an independent source.
 type Port struct {
 	Name   string
-	Plus   string // for a source port: the source's first terminal
-	Minus  string // defaults to Ground; for a source port: its second terminal
+	Plus   string // for a source port: a voltage source's plus, a current source's to
+	Minus  string // defaults to Ground; for a source port: the other terminal
 	Source string // name of the independent source defining the port, or ""
 	Line   int
 }
