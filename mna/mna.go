@@ -132,7 +132,13 @@ const senseSuffix = ":sense"
 // not stamped. Nodes are numbered in c.Nodes order, then branch currents in
 // part order, so the same circuit always gives the same layout.
 func Build(c *cases.Circuit) (*System, error) {
-	l := NewLayout()
+	// Maps and slices are sized up front: growing them dominated the cost
+	// of Build on large circuits.
+	l := &Layout{
+		Unknowns: make([]Unknown, 0, len(c.Nodes)+len(c.Parts)),
+		nodes:    make(map[string]int, len(c.Nodes)),
+		branches: map[string]int{},
+	}
 	for _, n := range c.Nodes {
 		l.AddNode(n)
 	}
@@ -142,10 +148,16 @@ func Build(c *cases.Circuit) (*System, error) {
 			controls[p.Control] = true
 		}
 	}
-	s := &System{Layout: l, Terminals: map[string][]int{}}
+	s := &System{Layout: l, Terminals: make(map[string][]int, len(c.Parts))}
+	nt := 0
+	for _, p := range c.Parts {
+		nt += len(p.Nodes)
+	}
+	slab := make([]int, nt)
 	// Terminal indices, with sense nodes for controlling parts.
 	for _, p := range c.Parts {
-		idx := make([]int, len(p.Nodes))
+		idx := slab[:len(p.Nodes):len(p.Nodes)]
+		slab = slab[len(p.Nodes):]
 		for i, n := range p.Nodes {
 			j, ok := l.Node(n)
 			if !ok {
@@ -168,6 +180,7 @@ func Build(c *cases.Circuit) (*System, error) {
 		}
 	}
 	n := l.Size()
+	s.G = make(Triplets, 0, 4*len(c.Parts))
 	s.DC = make([]float64, n)
 	s.AC = make([]complex128, n)
 	for _, p := range c.Parts {
