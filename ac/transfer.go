@@ -66,6 +66,10 @@ func Analyse(c *cases.Circuit, t *cases.Transfer, fHz []float64) (*Result, error
 	return res, nil
 }
 
+// OriginPower returns k of the DC-gain form's s^k: the zeros at the origin
+// less the poles there.
+func (r *Rational) OriginPower() int { return r.originOrder() }
+
 // MagnitudeDB returns 20·log10|h|.
 func MagnitudeDB(h complex128) float64 { return 20 * math.Log10(cmplx.Abs(h)) }
 

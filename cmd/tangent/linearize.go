@@ -1,14 +1,10 @@
 package main
 
 import (
-	"bytes"
 	"fmt"
 	"io"
 	"math"
-	"os"
-	"path/filepath"
 
-	"tangent/cases"
 	"tangent/smallsignal"
 )
 
@@ -57,30 +53,14 @@ func runLinearize(args []string, stdout, stderr io.Writer) int {
 	return exitOK
 }
 
-// exportEquivalent writes the equivalent to path through a temporary file
-// in the same folder and a rename, so a failed run never leaves half a file.
+// exportEquivalent writes the equivalent to path atomically (see
+// writeAtomically): a failed run never leaves half a file.
 func exportEquivalent(path, source string, eq *smallsignal.Equivalent) error {
-	var buf bytes.Buffer
 	header := fmt.Sprintf("Linear equivalent of %s at its bias point, written by tangent linearize.\n"+
 		"Every device is replaced by its small-signal model; a part named DEVICE_QUANTITY\n"+
 		"(Q1_gm, Q1_r_pi, M1_gds, D1_c_j) stands for that element of the device.\n"+
 		"Sources keep their AC values; their DC values are spent on the bias point.", source)
-	if err := smallsignal.Export(&buf, eq.Circuit, header); err != nil {
-		return err
-	}
-	tmp, err := os.CreateTemp(filepath.Dir(path), ".tangent-export-*")
-	if err != nil {
-		return err
-	}
-	defer os.Remove(tmp.Name())
-	if _, err := tmp.Write(buf.Bytes()); err != nil {
-		tmp.Close()
-		return err
-	}
-	if err := tmp.Close(); err != nil {
-		return err
-	}
-	return os.Rename(tmp.Name(), path)
+	return writeAtomically(path, func(w io.Writer) error { return smallsignal.Export(w, eq.Circuit, header) })
 }
 
 // resistanceJSON is 1/g, or nil (JSON null) for an open.
@@ -258,4 +238,3 @@ func regionWords(r string) string {
 	return string(b)
 }
 
-var _ = cases.Ground

@@ -7,6 +7,7 @@ import (
 	"math"
 	"math/cmplx"
 	"os"
+	"path/filepath"
 	"strconv"
 	"strings"
 
@@ -280,7 +281,7 @@ func transferJSON(r *ac.Result) object {
 	o.set("denominator", nonNilFloats(rt.Denominator()))
 	o.set("k0", rt.K0)
 	o.set("gain", rt.Gain())
-	o.set("origin_power", originPower(rt))
+	o.set("origin_power", rt.OriginPower())
 	var pairs []object
 	for _, p := range rt.Pairs() {
 		var po object
@@ -327,23 +328,6 @@ func nonNilObjects(v []object) []object {
 	return v
 }
 
-// originPower is k of s^k in the DC-gain form: zeros at the origin less
-// poles at the origin.
-func originPower(r *ac.Rational) int {
-	k := 0
-	for _, z := range r.Zeros {
-		if z == 0 {
-			k++
-		}
-	}
-	for _, p := range r.Poles {
-		if p == 0 {
-			k--
-		}
-	}
-	return k
-}
-
 func twoPortJSON(tps []twoPortAt) []object {
 	var out []object
 	for _, t := range tps {
@@ -385,11 +369,7 @@ func writeResponseCSV(w io.Writer, results []*ac.Result) error {
 // writeAtomically writes a file through a temporary file in the same
 // folder and a rename: a failed run leaves no half-written file.
 func writeAtomically(path string, write func(io.Writer) error) error {
-	dir := "."
-	if i := strings.LastIndexByte(path, '/'); i >= 0 {
-		dir = path[:i]
-	}
-	tmp, err := os.CreateTemp(dir, ".tangent-*")
+	tmp, err := os.CreateTemp(filepath.Dir(path), ".tangent-*")
 	if err != nil {
 		return err
 	}
@@ -564,7 +544,7 @@ func dcGainForm(r *ac.Rational) string {
 		}
 		return b.String()
 	}
-	s := num5(r.K0) + powerOfS(originPower(r))
+	s := num5(r.K0) + powerOfS(r.OriginPower())
 	if n := factors(r.Zeros); n != "" {
 		s += "·" + n
 	}
