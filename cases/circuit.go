@@ -228,10 +228,12 @@ type Variant struct {
 }
 
 // Override sets one dotted key path of the case, e.g.
-// models.lownoise.forward_early_voltage, to a new raw TOML value.
+// models.lownoise.forward_early_voltage, to a new raw TOML value. A
+// one-element path may name a switch such as early_effect (see the package
+// comment), whose value is a bool or a table {value, models}.
 type Override struct {
 	Path  []string
-	Value any // as decoded by TOML: string, int64, float64, bool
+	Value any // as decoded by TOML: string, int64, float64, bool, map[string]any
 	Line  int
 }
 

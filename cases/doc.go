@@ -31,12 +31,34 @@
 // stop (Hz, 0 < start < stop) and points_per_decade (an integer from 1 to
 // 1000); at most 100 000 points.
 //
-// Variants. Every leaf of [variants.NAME] except note is an override; its
-// path is temperature, solver.KEY, models.NAME.KEY or parts.NAME.KEY,
-// where KEY is any key that table may have, set in the base file or not;
-// a part's kind and a model's device cannot be overridden. Parse applies
-// every variant to the base case and reports what the variant breaks, at
-// the variant's line.
+// Variants. Every leaf of [variants.NAME] except note and the switches
+// below is an override; its path is temperature, solver.KEY,
+// models.NAME.KEY or parts.NAME.KEY, where KEY is any key that table may
+// have, set in the base file or not; a part's kind and a model's device
+// cannot be overridden. Parse applies every variant to the base case and
+// reports what the variant breaks, at the variant's line.
+//
+// Switches. Five keys of a variant table turn one effect off in the models
+// without naming their keys:
+//
+//	early_effect               npn, pnp: forward_ and reverse_early_voltage = inf
+//	terminal_resistances       diode: series_resistance = 0;
+//	                           npn, pnp: base_, collector_, emitter_resistance = 0
+//	channel_length_modulation  nmos, pmos: channel_length_modulation = 0
+//	body_effect                nmos, pmos: body_effect = 0
+//	capacitances               diode: junction_capacitance, transit_time = 0;
+//	                           npn, pnp: be_ and bc_capacitance,
+//	                           forward_ and reverse_transit_time = 0;
+//	                           nmos, pmos: oxide_ and overlap_capacitance = 0
+//
+// A switch is written early_effect = false (every model that has the
+// effect), early_effect = { value = false, models = ["bw_npn"] } (the models
+// listed, each of which must have the effect) or early_effect = true (the
+// models as they are: nothing changes). A switch set to false where no model
+// has the effect is a warning. A variant may not also override a key its
+// switch sets (that is a conflict, reported at the override's line). The
+// same switches are accepted by Circuit.WithOverrides as one-element paths,
+// so the command line's --set early_effect=false works too.
 //
 // Topology. See the comment in topology.go: no gnd, loops of voltage
 // sources and inductors, node sets without a DC path to gnd (named a

@@ -1,6 +1,7 @@
 package cases
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"slices"
@@ -44,27 +45,46 @@ func (c *Circuit) ApplyVariant(name string) (*Circuit, error) {
 // value set at its path, as if the file had said so. Paths are those of the
 // file: temperature, solver.KEY, models.NAME.KEY and parts.NAME.KEY, where
 // KEY is any key that table may have (set in the file or not); a part's kind
-// and a model's device cannot be changed. Values are raw TOML values: a
-// string such as "4k7" is read as in the file. Override.Line is used in
-// messages (0 when the override does not come from a file).
+// and a model's device cannot be changed. A one-element path may also name
+// a switch (early_effect, terminal_resistances, channel_length_modulation,
+// body_effect, capacitances; see the package comment), which stands for the
+// model keys it sets; an explicit override of one of those keys in the same
+// list is a conflict. Values are raw TOML values: a string such as "4k7" is
+// read as in the file. Override.Line is used in messages (0 when the
+// override does not come from a file). A switch that changes nothing adds a
+// warning to the result's Warnings.
 func (c *Circuit) WithOverrides(overrides []Override) (*Circuit, error) {
 	if c.src == nil {
 		return nil, errors.New("cases: the circuit was not decoded from a case file, so it has no source to override")
 	}
 	var errs Errors
 	for _, o := range overrides {
+		if isSwitch(o.Path) {
+			continue
+		}
 		if msg := overridePathError(c.src.tree, o.Path); msg != "" {
 			errs = append(errs, Diagnostic{File: c.File, Line: o.Line, Key: path(o.Path).String(), Message: msg})
 		}
 	}
-	if len(errs) > 0 {
-		return nil, errs
+	expanded, probs := expandSwitches(c.src.tree, overrides)
+	var warns []Diagnostic
+	for _, p := range probs {
+		d := Diagnostic{File: c.File, Line: p.line, Key: p.rel.String(), Message: p.msg, Warning: p.warning}
+		if p.warning {
+			warns = append(warns, d)
+		} else {
+			errs = append(errs, d)
+		}
 	}
-	nc, err := build(c.File, applyOverrides(c.src, overrides), false)
+	if len(errs) > 0 {
+		return nil, Errors(sortDiagnostics(errs))
+	}
+	nc, err := build(c.File, applyOverrides(c.src, expanded), false)
 	if err != nil {
 		return nil, err
 	}
 	nc.Variant = c.Variant
+	nc.Warnings = sortDiagnostics(append(nc.Warnings, warns...))
 	return nc, nil
 }
 
@@ -243,18 +263,38 @@ func (b *builder) variants() {
 		}
 		var rels []path
 		collectLeaves(nil, vt, &rels)
-		slices.SortStableFunc(rels, func(x, y path) int { return b.line(p.add(x...)) - b.line(p.add(y...)) })
+		for k := range vt {
+			if isSwitch([]string{k}) {
+				rels = append(rels, path{k})
+			}
+		}
+		slices.SortStableFunc(rels, func(x, y path) int {
+			return cmp.Or(b.line(p.add(x...))-b.line(p.add(y...)), strings.Compare(x.key(), y.key()))
+		})
 		good := true
 		for _, rel := range rels {
 			full := p.add(rel...)
-			if msg := overridePathError(b.raw.tree, rel); msg != "" {
-				b.errorf(full, "%s", msg)
-				good = false
+			if !isSwitch(rel) {
+				if msg := overridePathError(b.raw.tree, rel); msg != "" {
+					b.errorf(full, "%s", msg)
+					good = false
+				}
 			}
 			va.Overrides = append(va.Overrides, Override{Path: rel, Value: leaf(vt, rel), Line: b.line(full)})
 		}
+		expanded, probs := expandSwitches(b.raw.tree, va.Overrides)
+		for _, pr := range probs {
+			if pr.warning {
+				b.warnf(p.add(pr.rel...), "%s", pr.msg)
+				continue
+			}
+			b.errorf(p.add(pr.rel...), "%s", pr.msg)
+			good = false
+		}
 		if len(rels) == 0 {
 			b.warnf(p, "the variant overrides nothing")
+		} else if len(expanded) == 0 && len(probs) == 0 {
+			b.warnf(p, "the variant changes nothing: every switch in it is true")
 		}
 		if good {
 			b.goodVariants = append(b.goodVariants, va)
@@ -264,10 +304,10 @@ func (b *builder) variants() {
 }
 
 // collectLeaves appends the paths of all non-table values under t (except a
-// top-level note) to out.
+// top-level note and switches) to out.
 func collectLeaves(prefix path, t map[string]any, out *[]path) {
 	for k, v := range t {
-		if len(prefix) == 0 && k == "note" {
+		if len(prefix) == 0 && (k == "note" || isSwitch([]string{k})) {
 			continue
 		}
 		if sub, ok := v.(map[string]any); ok && len(sub) > 0 {
@@ -296,7 +336,8 @@ func (b *builder) tryVariants() {
 		base[d.Error()] = true
 	}
 	for _, va := range b.goodVariants {
-		_, err := build(b.file, applyOverrides(b.raw, va.Overrides), false)
+		expanded, _ := expandSwitches(b.raw.tree, va.Overrides)
+		_, err := build(b.file, applyOverrides(b.raw, expanded), false)
 		var errs Errors
 		if !errors.As(err, &errs) {
 			continue

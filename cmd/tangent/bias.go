@@ -16,12 +16,14 @@ func init() {
 }
 
 func runBias(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("bias", "tangent bias [FILE] [--json]",
+	fs := newFlags("bias", "tangent bias [FILE] [--json] [--set PATH=VALUE]",
 		"Find the DC operating point (bias point) of a case (with no FILE, the embedded default\n"+
 			"example) and report node voltages, each part's current and power, each device's\n"+
 			"region, terminal currents and voltages, the power balance and warnings.\n"+
 			"Exit status 0 when solved, 1 when no operating point is found, 2 for bad input.", stderr)
 	asJSON := fs.Bool("json", false, "print the result as JSON on stdout (SI units)")
+	var cf caseFlags
+	cf.register(fs)
 	rest, code, ok := parseFlags(fs, args, stderr)
 	if !ok {
 		return code
@@ -30,7 +32,7 @@ func runBias(args []string, stdout, stderr io.Writer) int {
 	if !ok {
 		return code
 	}
-	c, code := loadCase(file, stderr)
+	c, code := cf.load("bias", file, stderr)
 	if c == nil {
 		return code
 	}

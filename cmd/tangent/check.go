@@ -75,18 +75,23 @@ type checkVariant struct {
 }
 
 func runCheck(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("check", "tangent check [FILE] [--json]",
+	fs := newFlags("check", "tangent check [FILE] [--json] [--set PATH=VALUE]",
 		"Validate a case file (with no FILE, the embedded default example; \"example:NAME\" names\n"+
 			"another example) and print a summary. Exit status 0 when valid, 2 when not;\n"+
 			"every problem is printed to stderr as file:line: key: message.", stderr)
 	asJSON := fs.Bool("json", false, "print the summary (or the errors) as JSON on stdout")
+	var cf caseFlags
+	cf.register(fs)
 	file, code, ok := parseFileArgs(fs, args, stderr)
 	if !ok {
 		return code
 	}
 	c, err := readCase(file)
+	if err == nil {
+		c, err = cf.apply(c)
+	}
 	if err != nil {
-		printError(stderr, err)
+		printFlagError(stderr, "check", err)
 		if *asJSON {
 			s := checkSummary{File: caseName(file)}
 			var errs cases.Errors
@@ -100,7 +105,7 @@ func runCheck(args []string, stdout, stderr io.Writer) int {
 		return exitUsage
 	}
 	for _, w := range c.Warnings {
-		fmt.Fprintln(stderr, w.Error())
+		fmt.Fprintln(stderr, flagPrefix("check", w)+w.Error())
 	}
 	s := summarize(c)
 	if *asJSON {

@@ -52,6 +52,10 @@ func formatEngDigits(v float64, unit string, digits int) string {
 			intDigits = 2
 		}
 		s := strconv.FormatFloat(m, 'f', max(0, digits-intDigits), 64)
+		if r, _ := strconv.ParseFloat(s, 64); intDigits < 3 && r >= math.Pow(10, float64(intDigits)) {
+			// rounding carried into one more integer digit: 99.996 → 100.0
+			s = strconv.FormatFloat(m, 'f', max(0, digits-intDigits-1), 64)
+		}
 		if r, _ := strconv.ParseFloat(s, 64); r >= 1000 {
 			e++ // rounding carried into the next prefix: 999.96 → 1.000 k
 			continue

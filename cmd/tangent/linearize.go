@@ -13,7 +13,7 @@ func init() {
 }
 
 func runLinearize(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("linearize", "tangent linearize [FILE] [--json] [--export OUT.toml]",
+	fs := newFlags("linearize", "tangent linearize [FILE] [--json] [--export OUT.toml] [--set PATH=VALUE]",
 		"Find the bias point, then show each device's small-signal (incremental) model there:\n"+
 			"hybrid-π elements of a bjt, gm/gds/gmb and gate capacitances of a mosfet, gd and\n"+
 			"capacitances of a diode, with the bias they came from and the input swing over which\n"+
@@ -21,11 +21,13 @@ func runLinearize(args []string, stdout, stderr io.Writer) int {
 			"--export writes the linear equivalent circuit as a case file tangent reads back.", stderr)
 	asJSON := fs.Bool("json", false, "print the result as JSON on stdout (SI units)")
 	export := fs.String("export", "", "write the linear equivalent as a case file to `OUT.toml`")
+	var cf caseFlags
+	cf.register(fs)
 	file, code, ok := parseFileArgs(fs, args, stderr)
 	if !ok {
 		return code
 	}
-	c, code := loadCase(file, stderr)
+	c, code := cf.load("linearize", file, stderr)
 	if c == nil {
 		return code
 	}
@@ -237,4 +239,3 @@ func regionWords(r string) string {
 	}
 	return string(b)
 }
-

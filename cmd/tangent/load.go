@@ -7,9 +7,11 @@ import (
 	"io"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
 
+	"github.com/BurntSushi/toml"
 	"github.com/spf13/pflag"
 
 	"tangent/cases"
@@ -170,4 +172,152 @@ func siString(v float64, unit string) string {
 		s = strconv.FormatFloat(m, 'f', -1, 64)
 	}
 	return s + " " + siPrefixSymbols[e+5] + unit
+}
+
+// caseFlags holds the flags that change the case a subcommand reads:
+// --set PATH=VALUE, repeatable. Register them with register, then read the
+// case with load (or readCase and apply).
+type caseFlags struct {
+	sets []string
+}
+
+// register adds --set to fs.
+func (cf *caseFlags) register(fs *pflag.FlagSet) {
+	fs.StringArrayVar(&cf.sets, "set", nil, "override one key of the case, `PATH=VALUE`, PATH dotted as in the file:\n"+
+		"parts.RC.value=4k7, temperature=\"85 °C\", models.bw_npn.forward_early_voltage=inf,\n"+
+		"or a switch such as early_effect=false; VALUE is read as a TOML value, else as a\n"+
+		"string; checked like the file; repeatable")
+}
+
+// overrides reads the --set flags. A flag's VALUE is a TOML value when it
+// parses as one (4700, 0.5, inf, false, "4k7", { value = false, models =
+// ["bw_npn"] }); otherwise it is the string as written, so that 4k7 and
+// 85 °C need no quotes. PATH is a dotted TOML key.
+func (cf *caseFlags) overrides() ([]cases.Override, error) {
+	var out []cases.Override
+	for _, s := range cf.sets {
+		p, v, ok := strings.Cut(s, "=")
+		p, v = strings.TrimSpace(p), strings.TrimSpace(v)
+		if !ok || p == "" {
+			return nil, fmt.Errorf("--set %q: want PATH=VALUE, e.g. parts.RC.value=4k7", s)
+		}
+		var keyDoc map[string]any
+		if _, err := toml.Decode(p+" = 0", &keyDoc); err != nil {
+			return nil, fmt.Errorf("--set %q: %q is not a dotted key such as parts.RC.value", s, p)
+		}
+		var keys []string
+		for t := keyDoc; len(t) == 1; {
+			var next any
+			for k, e := range t {
+				keys, next = append(keys, k), e
+			}
+			sub, ok := next.(map[string]any)
+			if !ok {
+				break
+			}
+			t = sub
+		}
+		var valDoc map[string]any
+		var value any = v
+		if _, err := toml.Decode("x = "+v, &valDoc); err == nil {
+			value = valDoc["x"]
+		}
+		out = append(out, cases.Override{Path: keys, Value: value})
+	}
+	return out, nil
+}
+
+// apply returns c with the --set overrides applied (c itself when there
+// are none). Its diagnostics name the flag: a problem with the key or
+// value of a --set reads "--set PATH=VALUE: message"; one the override
+// causes elsewhere in the case keeps its file and line and ends in
+// "(with --set)".
+func (cf *caseFlags) apply(c *cases.Circuit) (*cases.Circuit, error) {
+	if len(cf.sets) == 0 {
+		return c, nil
+	}
+	ovs, err := cf.overrides()
+	if err != nil {
+		return nil, err
+	}
+	nc, err := c.WithOverrides(ovs)
+	var errs cases.Errors
+	if errors.As(err, &errs) {
+		return nil, cf.blame(ovs, errs, nil)
+	}
+	if err != nil {
+		return nil, err
+	}
+	nc.Warnings = cf.blame(ovs, nc.Warnings, c.Warnings)
+	return nc, nil
+}
+
+// blame rewrites diagnostics about a --set to name the flag; those in
+// known (the case's own warnings) are kept as they are.
+func (cf *caseFlags) blame(ovs []cases.Override, ds, known []cases.Diagnostic) cases.Errors {
+	out := make(cases.Errors, 0, len(ds))
+	for _, d := range ds {
+		if slices.Contains(known, d) {
+			out = append(out, d)
+			continue
+		}
+		nd := d
+		for i, o := range ovs {
+			key := toml.Key(o.Path).String()
+			if d.Key == key || strings.HasPrefix(d.Key, key+".") || strings.HasPrefix(d.Key, key+"[") {
+				nd = cases.Diagnostic{File: "--set " + cf.sets[i], Message: d.Message, Warning: d.Warning}
+				if d.Key != key {
+					nd.Key = d.Key
+				}
+				break
+			}
+		}
+		if nd.File == d.File && nd.Line == d.Line {
+			nd.Message += " (with --set)"
+		}
+		out = append(out, nd)
+	}
+	return out
+}
+
+// load is loadCase with the --set overrides applied: on failure it prints
+// every diagnostic to stderr, prefixed by "tangent NAME: " where it is
+// about a flag, and returns a nil circuit and exitUsage.
+func (cf *caseFlags) load(name, file string, stderr io.Writer) (*cases.Circuit, int) {
+	c, err := readCase(file)
+	if err == nil {
+		c, err = cf.apply(c)
+	}
+	if err != nil {
+		printFlagError(stderr, name, err)
+		return nil, exitUsage
+	}
+	for _, w := range c.Warnings {
+		fmt.Fprintln(stderr, flagPrefix(name, w)+w.Error())
+	}
+	return c, exitOK
+}
+
+// printFlagError is printError, with "tangent NAME: " before the lines
+// about a flag.
+func printFlagError(stderr io.Writer, name string, err error) {
+	var errs cases.Errors
+	if errors.As(err, &errs) {
+		for _, d := range errs {
+			fmt.Fprintln(stderr, flagPrefix(name, d)+d.Error())
+		}
+		return
+	}
+	if strings.HasPrefix(err.Error(), "--") {
+		fmt.Fprintf(stderr, "tangent %s: %v\n", name, err)
+		return
+	}
+	printError(stderr, err)
+}
+
+func flagPrefix(name string, d cases.Diagnostic) string {
+	if strings.HasPrefix(d.File, "--") {
+		return "tangent " + name + ": "
+	}
+	return ""
 }

@@ -50,11 +50,13 @@ func runTransfer(args []string, stdout, stderr io.Writer) int {
 	fs.BoolVar(&fl.response, "response", false, "print the swept response as a table")
 	fs.StringVar(&fl.twoPort, "two-port", "", "print z, y, h, g and abcd parameters of the two-port `P1,P2`")
 	fs.StringSliceVar(&fl.at, "at", []string{"1 kHz"}, "`FREQUENCY` for --two-port (repeatable, comma-separated)")
+	var cf caseFlags
+	cf.register(fs)
 	file, code, ok := parseFileArgs(fs, args, stderr)
 	if !ok {
 		return code
 	}
-	c, code := loadCase(file, stderr)
+	c, code := cf.load("transfer", file, stderr)
 	if c == nil {
 		return code
 	}
@@ -90,6 +92,20 @@ func runTransfer(args []string, stdout, stderr io.Writer) int {
 	if eq == nil {
 		return code
 	}
+	if override == nil && fl.plots != "" {
+		// A Bode plot needs a response: transfers without a sweep get the
+		// default plot sweep.
+		var withSweep []*cases.Transfer
+		for _, t := range transfers {
+			if t.Sweep == nil {
+				u := *t
+				u.Sweep = &defaultPlotSweep
+				t = &u
+			}
+			withSweep = append(withSweep, t)
+		}
+		transfers = withSweep
+	}
 	results, code := analyseTransfers(eq, transfers, override, stderr)
 	if results == nil {
 		return code
@@ -113,7 +129,7 @@ func runTransfer(args []string, stdout, stderr io.Writer) int {
 		}
 	}
 	if fl.plots != "" {
-		if err := writePlots(fl.plots, results); err != nil {
+		if err := writePlots(fl.plots, c, results); err != nil {
 			fmt.Fprintf(stderr, "tangent transfer: %v\n", err)
 			return exitUsage
 		}
@@ -379,6 +395,11 @@ func writeAtomically(path string, write func(io.Writer) error) error {
 		return err
 	}
 	if err := tmp.Close(); err != nil {
+		return err
+	}
+	// CreateTemp makes the file private (0600); an output file is an
+	// ordinary document.
+	if err := os.Chmod(tmp.Name(), 0o644); err != nil {
 		return err
 	}
 	return os.Rename(tmp.Name(), path)

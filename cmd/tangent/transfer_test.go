@@ -95,3 +95,23 @@ func TestTransferTwoPort(t *testing.T) {
 		}
 	}
 }
+
+func TestTransferPlots(t *testing.T) {
+	dir := t.TempDir()
+	code, _, errs := runArgs("transfer", "example:sallen_key", "--plots", dir)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, f := range []string{"01_in-out_voltage_bode.svg", "01_in-out_voltage_poles.svg", "02_in-out_input_impedance_bode.svg"} {
+		data, err := os.ReadFile(filepath.Join(dir, f))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !strings.Contains(string(data), "<svg") {
+			t.Errorf("%s is not an SVG", f)
+		}
+		if info, _ := os.Stat(filepath.Join(dir, f)); info.Mode().Perm() != 0o644 {
+			t.Errorf("%s has mode %v, want 0644", f, info.Mode().Perm())
+		}
+	}
+}
