@@ -60,7 +60,7 @@ func runTransfer(args []string, stdout, stderr io.Writer) int {
 	if c == nil {
 		return code
 	}
-	transfers, code := selectTransfers(c, fl, stderr)
+	transfers, code := selectTransfers("transfer", c, fl.from, fl.to, fl.kind, stderr)
 	if transfers == nil {
 		return code
 	}
@@ -156,33 +156,34 @@ func runTransfer(args []string, stdout, stderr io.Writer) int {
 	return exitOK
 }
 
-// selectTransfers returns the file's transfers, or the one the flags give.
-func selectTransfers(c *cases.Circuit, fl transferFlags, stderr io.Writer) ([]*cases.Transfer, int) {
-	if fl.from == "" && fl.to == "" {
+// selectTransfers returns the file's transfers, or the one given by the
+// --from, --to and --kind flags of subcommand name.
+func selectTransfers(name string, c *cases.Circuit, from, to, kindFlag string, stderr io.Writer) ([]*cases.Transfer, int) {
+	if from == "" && to == "" {
 		if len(c.Transfers) == 0 {
-			fmt.Fprintf(stderr, "tangent transfer: %s has no [[transfer]]: give --from PORT --to PORT --kind KIND\n", c.File)
+			fmt.Fprintf(stderr, "tangent %s: %s has no [[transfer]]: give --from PORT --to PORT --kind KIND\n", name, c.File)
 			return nil, exitUsage
 		}
 		return c.Transfers, exitOK
 	}
-	if fl.from == "" || fl.to == "" {
-		fmt.Fprintln(stderr, "tangent transfer: --from and --to go together")
+	if from == "" || to == "" {
+		fmt.Fprintf(stderr, "tangent %s: --from and --to go together\n", name)
 		return nil, exitUsage
 	}
-	kind := cases.TransferKind(fl.kind)
+	kind := cases.TransferKind(kindFlag)
 	switch kind {
 	case cases.VoltageGain, cases.CurrentGain, cases.Transconductance, cases.Transimpedance, cases.InputImpedance, cases.OutputImpedance:
 	default:
-		fmt.Fprintf(stderr, "tangent transfer: --kind %q: want voltage, current, transconductance, transimpedance, input_impedance or output_impedance\n", fl.kind)
+		fmt.Fprintf(stderr, "tangent %s: --kind %q: want voltage, current, transconductance, transimpedance, input_impedance or output_impedance\n", name, kindFlag)
 		return nil, exitUsage
 	}
-	for _, p := range []string{fl.from, fl.to} {
+	for _, p := range []string{from, to} {
 		if !hasPortNamed(c, p) {
-			fmt.Fprintf(stderr, "tangent transfer: no port %q in %s (ports: %s)\n", p, c.File, strings.Join(portNames(c), ", "))
+			fmt.Fprintf(stderr, "tangent %s: no port %q in %s (ports: %s)\n", name, p, c.File, strings.Join(portNames(c), ", "))
 			return nil, exitUsage
 		}
 	}
-	return []*cases.Transfer{{From: fl.from, To: fl.to, Kind: kind}}, exitOK
+	return []*cases.Transfer{{From: from, To: to, Kind: kind}}, exitOK
 }
 
 func hasPortNamed(c *cases.Circuit, name string) bool {
