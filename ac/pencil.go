@@ -57,53 +57,115 @@ func balance(G, C mat.Matrix) (*scaledPencil, error) {
 	for i := 0; i < n; i++ {
 		p.dr[i], p.dc[i] = 1, 1
 	}
+	// The passes run over the nonzero entries only: circuit matrices
+	// have a few per row.
+	type entry struct {
+		i, j int
+		g, c float64
+	}
+	var es []entry
+	for i := 0; i < n; i++ {
+		for j := 0; j < n; j++ {
+			if g[i*n+j] != 0 || c[i*n+j] != 0 {
+				es = append(es, entry{i, j, g[i*n+j], c[i*n+j]})
+			}
+		}
+	}
+	rowMax, colMax := make([]float64, n), make([]float64, n)
+	rowSsq, colSsq := make([]float64, n), make([]float64, n)
+	// norms sets rowSsq, colSsq to the 2-norms of the rows and columns
+	// of [g c] (or of [g; c]), scaled by their largest entries so that
+	// nothing under- or overflows.
+	norms := func() {
+		for i := 0; i < n; i++ {
+			rowMax[i], colMax[i], rowSsq[i], colSsq[i] = 0, 0, 0, 0
+		}
+		for _, e := range es {
+			v := math.Max(math.Abs(e.g), math.Abs(e.c))
+			rowMax[e.i] = math.Max(rowMax[e.i], v)
+			colMax[e.j] = math.Max(colMax[e.j], v)
+		}
+		for _, e := range es {
+			a, b := e.g/rowMax[e.i], e.c/rowMax[e.i]
+			rowSsq[e.i] += a*a + b*b
+			a, b = e.g/colMax[e.j], e.c/colMax[e.j]
+			colSsq[e.j] += a*a + b*b
+		}
+		for i := 0; i < n; i++ {
+			rowSsq[i] = rowMax[i] * math.Sqrt(rowSsq[i])
+			colSsq[i] = colMax[i] * math.Sqrt(colSsq[i])
+		}
+	}
 	for round := 0; round < 2; round++ {
-		if ng, ncn := frob(g), frob(c); ng > 0 && ncn > 0 {
+		var ng, ncn float64
+		{
+			var gm, cm float64
+			for _, e := range es {
+				gm, cm = math.Max(gm, math.Abs(e.g)), math.Max(cm, math.Abs(e.c))
+			}
+			var gs, cs float64
+			for _, e := range es {
+				if gm > 0 {
+					gs += (e.g / gm) * (e.g / gm)
+				}
+				if cm > 0 {
+					cs += (e.c / cm) * (e.c / cm)
+				}
+			}
+			ng, ncn = gm*math.Sqrt(gs), cm*math.Sqrt(cs)
+		}
+		if ng > 0 && ncn > 0 {
 			f := pow2(ng / ncn)
-			for i := range c {
-				c[i] *= f
+			for k := range es {
+				es[k].c *= f
 			}
 			p.w0 *= f
 		}
 		for pass := 0; pass < 12; pass++ {
 			changed := false
+			norms()
+			fr := make([]float64, n)
 			for i := 0; i < n; i++ {
-				r := math.Hypot(frob(g[i*n:(i+1)*n]), frob(c[i*n:(i+1)*n]))
-				if r == 0 {
-					continue
+				fr[i] = 1
+				if rowSsq[i] != 0 {
+					fr[i] = pow2(1 / rowSsq[i])
 				}
-				if f := pow2(1 / r); f != 1 {
-					for j := i * n; j < (i+1)*n; j++ {
-						g[j] *= f
-						c[j] *= f
-					}
-					p.dr[i] *= f
+				if fr[i] != 1 {
+					p.dr[i] *= fr[i]
 					changed = true
 				}
 			}
+			for k := range es {
+				if f := fr[es[k].i]; f != 1 {
+					es[k].g *= f
+					es[k].c *= f
+				}
+			}
+			norms()
 			for j := 0; j < n; j++ {
-				var sg, sc float64
-				for i := 0; i < n; i++ {
-					sg = math.Hypot(sg, g[i*n+j])
-					sc = math.Hypot(sc, c[i*n+j])
+				f := 1.0
+				if colSsq[j] != 0 {
+					f = pow2(1 / colSsq[j])
 				}
-				r := math.Hypot(sg, sc)
-				if r == 0 {
-					continue
-				}
-				if f := pow2(1 / r); f != 1 {
-					for i := 0; i < n; i++ {
-						g[i*n+j] *= f
-						c[i*n+j] *= f
-					}
+				fr[j] = f
+				if f != 1 {
 					p.dc[j] *= f
 					changed = true
+				}
+			}
+			for k := range es {
+				if f := fr[es[k].j]; f != 1 {
+					es[k].g *= f
+					es[k].c *= f
 				}
 			}
 			if !changed {
 				break
 			}
 		}
+	}
+	for _, e := range es {
+		g[e.i*n+e.j], c[e.i*n+e.j] = e.g, e.c
 	}
 	return p, nil
 }

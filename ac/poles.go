@@ -24,11 +24,11 @@ const cancelTol = 1e-7
 // The error wraps ErrSingularPencil when the circuit's equations are
 // singular at every frequency.
 func Poles(p *Problem) ([]complex128, error) {
-	r, err := PencilRoots(p.G, p.C)
-	if errors.Is(err, ErrSingularPencil) {
-		return nil, fmt.Errorf("%w (the circuit has a floating node, a loop of voltage sources or a cut-set of current sources)", err)
+	r, err := problemRoots(p, false)
+	if err != nil {
+		return nil, err
 	}
-	return r, err
+	return r.poles, nil
 }
 
 // Zeros returns the finite zeros of p, before cancellation: the finite
@@ -39,17 +39,81 @@ func Poles(p *Problem) ([]complex128, error) {
 //
 // in rad/s. Its determinant is −det(G + s·C)·H(s), so its roots are the
 // zeros of H together with the modes that H does not see (the latter are
-// also poles and cancel). The error wraps ErrZeroTransfer when H ≡ 0.
+// also poles and cancel). They are computed as the eigenvalues of the
+// zero dynamics of the circuit's state-space form (see zeroDynamics) and
+// refined against H itself (see refineZeros). The error wraps
+// ErrZeroTransfer when H ≡ 0.
 func Zeros(p *Problem) ([]complex128, error) {
-	g, c := bordered(p)
-	r, err := PencilRoots(g, c)
-	if errors.Is(err, ErrSingularPencil) {
-		if _, perr := Poles(p); perr != nil {
-			return nil, perr
-		}
-		return nil, ErrZeroTransfer
+	r, err := problemRoots(p, true)
+	if err != nil {
+		return nil, err
 	}
-	return r, err
+	return r.zeros, nil
+}
+
+// roots is what problemRoots finds out about a Problem.
+type roots struct {
+	poles, zeros []complex128
+	// h evaluates H(s) at a real s > 0 (rad/s); rho ≤ 1 is the ratio of
+	// |H| to the largest term it is summed from (small when H comes out
+	// of cancellation); ok is false where the problem is singular.
+	h  func(s float64) (h, rho float64, ok bool)
+	w0 float64 // the balanced frequency unit, rad/s
+}
+
+// problemRoots returns the poles and, with wantZeros set, the zeros of p:
+// by systemRoots, or by the general path of PencilRoots where structure
+// leaves a singular c.
+func problemRoots(p *Problem, wantZeros bool) (*roots, error) {
+	bp, err := newBordered(p)
+	if err != nil {
+		return nil, err
+	}
+	r := roots{w0: bp.w0}
+	var de *descriptor
+	r.poles, r.zeros, de, err = systemRoots(bp, wantZeros)
+	switch {
+	case err != nil:
+	case de != nil:
+		w0 := bp.w0
+		r.h = func(s float64) (float64, float64, bool) { return de.hReal(s / w0) }
+	default:
+		r.poles, r.zeros, err = generalProblemRoots(p, wantZeros)
+		sp, berr := balance(p.G, p.C)
+		if berr != nil {
+			return nil, berr
+		}
+		r.h = func(s float64) (float64, float64, bool) { return sp.solveReal(p.B, p.Out, s/sp.w0) }
+	}
+	if errors.Is(err, ErrSingularPencil) {
+		return nil, fmt.Errorf("%w (the circuit has a floating node, a loop of voltage sources or a cut-set of current sources)", err)
+	}
+	if err != nil {
+		return nil, err
+	}
+	return &r, nil
+}
+
+// generalProblemRoots is problemRoots by the general path of PencilRoots
+// on G + s·C and on the bordered pencil.
+func generalProblemRoots(p *Problem, wantZeros bool) (poles, zeros []complex128, err error) {
+	p0, err := balance(p.G, p.C)
+	if err != nil {
+		return nil, nil, err
+	}
+	if poles, err = generalRoots(p0); err != nil || !wantZeros {
+		return poles, nil, err
+	}
+	g, c := bordered(p)
+	b0, err := balance(g, c)
+	if err != nil {
+		return nil, nil, err
+	}
+	zeros, err = generalRoots(b0)
+	if errors.Is(err, ErrSingularPencil) {
+		return nil, nil, ErrZeroTransfer
+	}
+	return poles, zeros, err
 }
 
 // bordered returns the system pencil of the zeros.

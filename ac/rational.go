@@ -30,17 +30,13 @@ type Rational struct {
 }
 
 // Analyze returns the rational transfer function of p: its poles and zeros
-// (PencilRoots on G + s·C and on the bordered pencil, see Poles and Zeros),
-// less the pole-zero pairs that coincide within a relative 1e-7, which go to
+// (see Poles and Zeros, computed together from one reduction), less the
+// pole-zero pairs that coincide within a relative 1e-7, which go to
 // Cancelled, and the constant K0 matched to H evaluated by a direct real
 // solve of (G + s0·C)·x = B at a reference point s0 > 0 away from every
-// root.
+// root (banded elimination of the reduced problem, see descriptor).
 func Analyze(p *Problem) (*Rational, error) {
-	poles, err := Poles(p)
-	if err != nil {
-		return nil, err
-	}
-	zeros, err := Zeros(p)
+	rs, err := problemRoots(p, true)
 	if errors.Is(err, ErrZeroTransfer) {
 		return &Rational{}, nil
 	}
@@ -48,20 +44,24 @@ func Analyze(p *Problem) (*Rational, error) {
 		return nil, err
 	}
 	r := &Rational{}
-	r.Poles, r.Zeros, r.Cancelled = cancel(poles, zeros)
-
-	sp, err := balance(p.G, p.C)
-	if err != nil {
+	r.Poles, r.Zeros, r.Cancelled = cancel(rs.poles, rs.zeros)
+	all := append(append([]complex128(nil), rs.poles...), rs.zeros...)
+	if err := r.matchGain(rs.h, rs.w0, all); err != nil {
 		return nil, err
 	}
+	return r, nil
+}
+
+// matchGain sets r.K0 from H evaluated by h, a direct real solve of
+// (G + s0·C)·x = B, at a reference point s0 > 0 away from every root in
+// all (the poles and zeros before cancellation); w0 (rad/s) is where to
+// look when no root is nonzero.
+func (r *Rational) matchGain(h func(s float64) (float64, float64, bool), w0 float64, all []complex128) error {
 	// Reference points: below the smallest nonzero root modulus, at their
 	// geometric mean and above the largest, each nudged by powers of two
 	// until it is 10 % away from every root. Of these, the point where
 	// the output is largest relative to the solution vector is taken: a
 	// direct solve there has the least cancellation.
-	var all []complex128
-	all = append(all, poles...)
-	all = append(all, zeros...)
 	var lsum float64
 	lo, hi, cnt := math.Inf(1), 0.0, 0
 	for _, v := range all {
@@ -71,7 +71,7 @@ func Analyze(p *Problem) (*Rational, error) {
 			cnt++
 		}
 	}
-	bases := []float64{sp.w0}
+	bases := []float64{w0}
 	if cnt > 0 {
 		bases = []float64{lo * math.Pow(2, -1.63), math.Exp(lsum/float64(cnt)) * math.Pow(2, 0.37), hi * math.Pow(2, 1.37)}
 	}
@@ -91,22 +91,22 @@ func Analyze(p *Problem) (*Rational, error) {
 			if d < 0.1 {
 				continue
 			}
-			h, rho, ok := sp.solveReal(p.B, p.Out, s/sp.w0)
-			if ok && h != 0 && rho > bestRho {
-				bestRho, bestS, bestH = rho, s, h
+			hs, rho, ok := h(s)
+			if ok && hs != 0 && rho > bestRho {
+				bestRho, bestS, bestH = rho, s, hs
 			}
 			break
 		}
 	}
 	if bestRho < 0 {
-		return nil, errors.New("ac: no reference point where G + s·C is nonsingular and H(s) ≠ 0")
+		return errors.New("ac: no reference point where G + s·C is nonsingular and H(s) ≠ 0")
 	}
 	f := r.shape(complex(bestS, 0))
 	r.K0 = real(complex(bestH, 0) / f.value())
 	if math.IsInf(r.K0, 0) || math.IsNaN(r.K0) {
-		return nil, fmt.Errorf("ac: gain constant out of range at s = %g rad/s", bestS)
+		return fmt.Errorf("ac: gain constant out of range at s = %g rad/s", bestS)
 	}
-	return r, nil
+	return nil
 }
 
 // solveReal returns y = Out·Dc·x̃ where (g + t·c)·x̃ = Dr·B, that is

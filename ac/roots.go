@@ -34,39 +34,55 @@ const (
 // pencil G + s·C, the roots of det(G + s·C) = 0, in rad/s when G is in
 // siemens and C in farads (any consistent units in general).
 //
-// The method (no polynomial is formed):
+// The method (no polynomial is formed; see systemRoots):
 //
 //  1. balance the pencil by exact power-of-two row, column and frequency
 //     scaling (see balance);
-//  2. split off the infinite eigenvalues and those at s = 0 exactly by an
-//     orthogonal staircase reduction with rank decisions at
-//     n·ε·‖·‖_F (see staircase), leaving g2 + t·c2 with both nonsingular;
-//     a singular pencil is found here and reported as ErrSingularPencil;
-//  3. shift and invert: with a real σ for which g2 + σ·c2 is well
-//     conditioned (σ = 0 when g2 is), the eigenvalues λ of
-//     A = (g2 + σ·c2)⁻¹·c2 give t = σ − 1/λ (lapack Dgeev, with left and
-//     right eigenvectors); an eigenvalue |λ| ≤ m·ε·‖A‖_F, which step 2
-//     should have removed, is taken for an infinite one and dropped;
-//  4. refine every root on the balanced original pencil: the eigenvectors
-//     are carried back through the staircase and the two-sided Rayleigh
-//     quotient t = −(yᴴ·g·x)/(yᴴ·c·x) is taken, whose error is the product
-//     of the errors of x and y; a root whose correction exceeds 1e-8
-//     relative is refined further by two-sided Rayleigh-quotient
-//     iteration with complex LU solves of g + t·c (cubically convergent);
+//  2. remove the infinite eigenvalues exactly by Gaussian elimination of
+//     the unknowns and equations that carry no capacitance or inductance
+//     (borderedPencil.reduce), and of the equations that exact row combinations
+//     of a singular c expose (a floating capacitor; exposeAlgebraic); a
+//     singular pencil is found here and reported as ErrSingularPencil;
+//  3. the remaining pencil g + t·c has c nonsingular: the eigenvalues of
+//     A = −c⁻¹·g (lapack Dgeev, no vectors) are the roots, as many at
+//     t = 0 as g has null vectors being set exactly to zero;
+//  4. refine the roots whose estimated error ε·‖A‖_F/|t| exceeds 1e-12
+//     by two-sided Rayleigh-quotient iteration on the reduced pencil with
+//     banded complex LU solves (see bandPencil, refinePole);
 //  5. tidy: roots of a multiple-root cluster (relative spread < 1e-6) are
 //     replaced by their mean, real eigenvalues are returned exactly real,
-//     conjugate pairs exactly conjugate, roots at zero exactly zero.
+//     conjugate pairs exactly conjugate.
+//
+// Where step 2 leaves c singular with no exact dependence to explain it
+// (not met in circuit matrices so far), the general path takes over:
+// an orthogonal staircase with rank decisions at n·ε·‖·‖_F, shift and
+// invert, Rayleigh-quotient refinement (see generalRoots).
 //
 // The roots are sorted by modulus, then imaginary part, then real part.
-// Poles spread over 12 decades come out within 1e-9 relative, each one
-// being refined on the unreduced pencil; beyond about 14 decades the
-// rank decisions of step 2 can no longer tell a tiny capacitance from
-// none.
+// Poles spread over 12 decades come out within 1e-9 relative. That c is
+// nonsingular is decided on exact dependences (exposeAlgebraic), not on
+// its condition number, so a capacitance 18 decades below the largest
+// still gives its pole.
 func PencilRoots(G, C mat.Matrix) ([]complex128, error) {
 	p0, err := balance(G, C)
 	if err != nil {
 		return nil, err
 	}
+	poles, _, de, err := systemRoots(pencilBordered(p0), false)
+	if err != nil || de != nil {
+		return poles, err
+	}
+	return generalRoots(p0)
+}
+
+// generalRoots is the path of PencilRoots for pencils whose infinite
+// eigenvalues are not all removed by structure: the orthogonal staircase
+// with rank decisions (see staircase), the eigenvalues of the shifted and
+// inverted remainder (finiteRoots, lapack Dgeev with left and right
+// eigenvectors) and their refinement on the balanced pencil by two-sided
+// Rayleigh quotients, then Rayleigh-quotient iteration with complex LU
+// solves where the first correction exceeds 1e-8 relative.
+func generalRoots(p0 *scaledPencil) ([]complex128, error) {
 	p, err := eliminate(p0)
 	if err != nil {
 		return nil, err

@@ -7,14 +7,22 @@ import (
 	"gonum.org/v1/gonum/blas"
 )
 
-// Sweeper evaluates H(s) = Out·(G + s·C)⁻¹·B at many points for O(n²) work
-// each, after an O(n³) reduction (Laub, Efficient multivariable frequency
-// response computations, IEEE Trans. Autom. Control 26, 1981; from
-// memory).
+// Sweeper evaluates H(s) = Out·(G + s·C)⁻¹·B at many points, cheaply
+// after a reduction done once. There are two ways, and NewSweeper takes
+// the cheaper per point:
 //
-// With the balanced pencil g + t·c (s = w0·t, see balance), a real shift σ
-// for which F = g + σ·c is well conditioned, and the Hessenberg
-// decomposition A = F⁻¹·c = Q·Hs·Qᵀ (lapack Dgehrd, Dorghr),
+//   - banded elimination (see bandPencil) of the reduced problem (see
+//     borderedPencil.reduce): circuit matrices whose unknowns each touch a few
+//     neighbours gather in a narrow band, and one factorization and one
+//     solve cost n·kl·(kl + ku) complex multiply-adds, exact in structure
+//     and needing no accuracy guard;
+//   - the Hessenberg form (Laub, Efficient multivariable frequency response
+//     computations, IEEE Trans. Autom. Control 26, 1981; from memory), about
+//     n² per point whatever the structure, for dense pencils.
+//
+// The Hessenberg form: with the balanced pencil g + t·c (s = w0·t, see
+// balance), a real shift σ for which F = g + σ·c is well conditioned, and
+// the Hessenberg decomposition A = F⁻¹·c = Q·Hs·Qᵀ (lapack Dgehrd, Dorghr),
 //
 //	g + t·c = F·(I + (t − σ)·A),
 //	H(s) = cᵀ·(I + (t − σ)·Hs)⁻¹·w,   w = Qᵀ·F⁻¹·Dr·B,   c = Qᵀ·Dc·Outᵀ,
@@ -23,25 +31,28 @@ import (
 // I + (t − σ)·Hs. That solve is Gaussian elimination with partial pivoting
 // between adjacent rows, fused with the forward substitution of
 // Uᵀ·v = c so that H = vᵀ·(L⁻¹·P·w) needs neither U nor the solution
-// vector: two rows of workspace, no allocation.
+// vector: two rows of workspace, no allocation. Points where its accuracy
+// guard fails (see maxRelErr) are computed by the banded elimination.
+// Above the highest pole a transfer of relative degree r falls like
+// s^(−r) and comes out of cancellation in any orthogonal coordinates, so
+// that no second Hessenberg form (at a higher shift, say) would save
+// those points; on a 200-node ladder with bridges (r ≈ 115) that was 607
+// points of 1000, hence the banded elimination as the first choice.
 //
 // A Sweeper is not safe for concurrent use: it owns its workspace.
 type Sweeper struct {
+	de   *descriptor // banded evaluation of the reduced problem
+	band bool        // every point by de; else the Hessenberg form
+	w0   float64
+
 	n     int
-	w0    float64
 	sigma float64
 	h     []float64 // Hs, n×n row-major (entries below the subdiagonal unused)
 	w, c  []float64
 	r, q  []complex128 // the two working rows
 	acc   []complex128 // running Uᵀ-substitution sums
 
-	// Direct-solve fallback: the balanced pencil, Dr·B, Dc·Out and
-	// workspace.
-	sp     *scaledPencil
-	b, out []float64
-	x      []complex128
-	lu     clu
-	direct int     // points computed by the fallback (for tests)
+	direct int     // Hessenberg points computed by de instead (for tests)
 	scale  float64 // ‖c‖₂·‖w‖₂
 	hnorm  float64 // ‖Hs‖_F
 }
@@ -52,31 +63,52 @@ type Sweeper struct {
 // exceeds maxRelErr·|y|, the orthogonal coordinates have mixed quantities
 // of very different size and H comes out of their cancellation: far
 // above the highest pole (where |H| falls as a high power of ω) or near a
-// zero of H. Such points are recomputed by a direct complex LU solve of
-// the balanced pencil, O(n³) but exact in structure. The bound is
-// pessimistic by two to four orders in the cases tested, so results stay
-// well within 1e-9 relative of a direct solve.
+// zero of H. Such points are recomputed by the banded elimination, exact
+// in structure. The bound is pessimistic by two to four orders in the
+// cases tested, so results stay well within 1e-9 relative of a direct
+// solve.
 const maxRelErr = 1e-7
 
+// useBand reports whether the banded solve of de (one factorization and
+// one solve per point) is cheaper than the Hessenberg solve of order n
+// (about n² complex multiply-adds for the elimination and the
+// substitution together). On a 200-node ladder with bridges the band has
+// kl = ku = 4 to 6: some 25 000 against 40 000, and no guard to fail.
+func useBand(de *descriptor, n int) bool {
+	bp := de.band
+	return bp.cost()+bp.n*(2*bp.kl+bp.ku+1) <= n*n
+}
+
 // NewSweeper reduces p for fast evaluation of its transfer function. It
-// fails when no real shift makes G + σ·C nonsingular (a singular pencil).
+// fails when the pencil is singular.
 func NewSweeper(p *Problem) (*Sweeper, error) {
+	bp, err := newBordered(p)
+	if err != nil {
+		return nil, err
+	}
+	rb, err := bp.reduce()
+	if err != nil {
+		return nil, err
+	}
+	de := newDescriptor(rb)
+	if useBand(de, bp.n) {
+		return &Sweeper{de: de, band: true, w0: bp.w0}, nil
+	}
+	return newHessenbergSweeper(p, de)
+}
+
+// newHessenbergSweeper builds the Hessenberg form of p, with de for the
+// points that fail the accuracy guard.
+func newHessenbergSweeper(p *Problem, de *descriptor) (*Sweeper, error) {
 	sp, err := balance(p.G, p.C)
 	if err != nil {
 		return nil, err
 	}
 	n := sp.n
-	sw := &Sweeper{n: n, w0: sp.w0, r: make([]complex128, n), q: make([]complex128, n), acc: make([]complex128, n),
-		sp: sp, b: make([]float64, n), out: make([]float64, n), x: make([]complex128, n)}
+	sw := &Sweeper{de: de, n: n, w0: sp.w0, r: make([]complex128, n), q: make([]complex128, n), acc: make([]complex128, n)}
 	if n == 0 {
 		return sw, nil
 	}
-	for i := 0; i < n; i++ {
-		sw.b[i] = sp.dr[i] * p.B[i]
-		sw.out[i] = sp.dc[i] * p.Out[i]
-	}
-	sw.lu.a = make([]complex128, n*n)
-	sw.lu.piv = make([]int, n)
 	sigma, lu, ipiv, ok := shiftedLU(sp.g, sp.c, n)
 	if !ok {
 		return nil, ErrSingularPencil
@@ -122,31 +154,28 @@ func NewSweeper(p *Problem) (*Sweeper, error) {
 // frequency axis). At a pole it returns complex infinity. It does not
 // allocate.
 func (sw *Sweeper) At(s complex128) complex128 {
-	if sw.n == 0 {
-		return 0
-	}
 	t := s / complex(sw.w0, 0)
-	mu := t - complex(sw.sigma, 0)
-	y := sw.hessenberg(mu)
-	if cmplx.IsInf(y) || epsilon*(1+cmplx.Abs(mu)*sw.hnorm)*sw.scale <= maxRelErr*cmplx.Abs(y) {
-		return y
+	if !sw.band {
+		if sw.n == 0 {
+			return sw.banded(t)
+		}
+		mu := t - complex(sw.sigma, 0)
+		y := sw.hessenberg(mu)
+		if cmplx.IsInf(y) || epsilon*(1+cmplx.Abs(mu)*sw.hnorm)*sw.scale <= maxRelErr*cmplx.Abs(y) {
+			return y
+		}
+		sw.direct++
 	}
-	sw.direct++
-	return sw.solveDirect(t)
+	return sw.banded(t)
 }
 
-// solveDirect returns H by a complex LU solve of (g + t·c)·x̃ = Dr·B.
-func (sw *Sweeper) solveDirect(t complex128) complex128 {
-	sw.lu.factor(sw.n, sw.sp.g, sw.sp.c, t)
-	for i, v := range sw.b {
-		sw.x[i] = complex(v, 0)
+// banded returns H by the banded elimination of the reduced problem.
+func (sw *Sweeper) banded(t complex128) complex128 {
+	h, _, k := sw.de.h(t, false)
+	if sw.de.singular {
+		return cmplx.Inf()
 	}
-	sw.lu.solve(sw.x)
-	var y complex128
-	for i, v := range sw.out {
-		y += complex(v, 0) * sw.x[i]
-	}
-	return y
+	return h * complex(math.Ldexp(1, -k), 0)
 }
 
 // hessenberg returns cᵀ·(I + μ·Hs)⁻¹·w.
