@@ -2,7 +2,6 @@ package ac
 
 import (
 	"math"
-	"math/cmplx"
 
 	"gonum.org/v1/gonum/blas"
 	blasgonum "gonum.org/v1/gonum/blas/gonum"
@@ -140,119 +139,6 @@ func shiftedLU(g, c []float64, m int) (sigma float64, lu []float64, ipiv []int, 
 		}
 	}
 	return sigma, lu, ipiv, best > 0
-}
-
-// clu is a dense complex LU factorization with partial pivoting,
-// P·M = L·U, used by the final Rayleigh-quotient refinement of roots.
-type clu struct {
-	n   int
-	a   []complex128
-	piv []int
-}
-
-// factor overwrites the receiver with the factors of M = g + t·c. A zero
-// pivot (t is an eigenvalue to working precision) is replaced by
-// epsilon·max|M|, the usual remedy in inverse iteration: the solve then
-// returns a large multiple of the eigenvector.
-func (f *clu) factor(n int, g, c []float64, t complex128) {
-	f.n = n
-	if cap(f.a) < n*n {
-		f.a = make([]complex128, n*n)
-		f.piv = make([]int, n)
-	}
-	f.a = f.a[:n*n]
-	f.piv = f.piv[:n]
-	var amax float64
-	for i := range f.a {
-		v := complex(g[i], 0) + t*complex(c[i], 0)
-		f.a[i] = v
-		amax = math.Max(amax, cmplx.Abs(v))
-	}
-	tiny := epsilon * amax
-	if tiny == 0 {
-		tiny = math.SmallestNonzeroFloat64
-	}
-	a := f.a
-	for k := 0; k < n; k++ {
-		p := k
-		pm := abs1(a[k*n+k])
-		for i := k + 1; i < n; i++ {
-			if v := abs1(a[i*n+k]); v > pm {
-				p, pm = i, v
-			}
-		}
-		f.piv[k] = p
-		if p != k {
-			for j := 0; j < n; j++ {
-				a[k*n+j], a[p*n+j] = a[p*n+j], a[k*n+j]
-			}
-		}
-		if a[k*n+k] == 0 {
-			a[k*n+k] = complex(tiny, 0)
-		}
-		inv := 1 / a[k*n+k]
-		for i := k + 1; i < n; i++ {
-			l := a[i*n+k] * inv
-			a[i*n+k] = l
-			if l == 0 {
-				continue
-			}
-			ri := a[i*n : (i+1)*n]
-			rk := a[k*n : (k+1)*n]
-			for j := k + 1; j < n; j++ {
-				ri[j] -= l * rk[j]
-			}
-		}
-	}
-}
-
-// solve overwrites x with M⁻¹·x.
-func (f *clu) solve(x []complex128) {
-	n, a := f.n, f.a
-	for k := 0; k < n; k++ {
-		if p := f.piv[k]; p != k {
-			x[k], x[p] = x[p], x[k]
-		}
-	}
-	for i := 0; i < n; i++ {
-		s := x[i]
-		for j := 0; j < i; j++ {
-			s -= a[i*n+j] * x[j]
-		}
-		x[i] = s
-	}
-	for i := n - 1; i >= 0; i-- {
-		s := x[i]
-		for j := i + 1; j < n; j++ {
-			s -= a[i*n+j] * x[j]
-		}
-		x[i] = s / a[i*n+i]
-	}
-}
-
-// solveH overwrites x with M⁻ᴴ·x.
-func (f *clu) solveH(x []complex128) {
-	n, a := f.n, f.a
-	// Mᴴ = Uᴴ·Lᴴ·P: solve Uᴴ w = x, Lᴴ z = w, then x = Pᵀ z.
-	for i := 0; i < n; i++ {
-		s := x[i]
-		for j := 0; j < i; j++ {
-			s -= cmplx.Conj(a[j*n+i]) * x[j]
-		}
-		x[i] = s / cmplx.Conj(a[i*n+i])
-	}
-	for i := n - 1; i >= 0; i-- {
-		s := x[i]
-		for j := i + 1; j < n; j++ {
-			s -= cmplx.Conj(a[j*n+i]) * x[j]
-		}
-		x[i] = s
-	}
-	for k := n - 1; k >= 0; k-- {
-		if p := f.piv[k]; p != k {
-			x[k], x[p] = x[p], x[k]
-		}
-	}
 }
 
 // abs1 is |re| + |im|, a cheap magnitude for pivoting.

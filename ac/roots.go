@@ -10,6 +10,8 @@ import (
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/lapack"
 	"gonum.org/v1/gonum/mat"
+
+	"tangent/internal/cdense"
 )
 
 // Tolerances of root refinement and tidying, relative to |s|.
@@ -213,7 +215,7 @@ func finiteRoots(p *scaledPencil, st *staircase) ([]complex128, error) {
 	cx := make([]float64, n*m)
 	gemm(n, m, n, p.c, n, x, m, cx, m)
 
-	var f clu
+	var f cdense.LU
 	out := make([]complex128, 0, m)
 	xv := make([]complex128, n)
 	yv := make([]complex128, n)
@@ -268,20 +270,27 @@ func isFinite(z complex128) bool { return !cmplx.IsInf(z) && !cmplx.IsNaN(z) }
 //
 //	x ← (g + t·c)⁻¹·c·x,  y ← (g + t·c)⁻ᴴ·cᵀ·y,  t ← −(yᴴ·g·x)/(yᴴ·c·x),
 //
-// with complex LU solves. It stops when t changes by less than
-// 8·ε·|t| or after 8 steps, and reports whether it converged. With real
-// set, t, x and y stay real.
-func rqi(f *clu, p *scaledPencil, t complex128, x, y []complex128, real_ bool) (complex128, bool) {
+// with complex LU solves in f, whose storage is reused across calls. It
+// stops when t changes by less than 8·ε·|t| or after 8 steps, and reports
+// whether it converged. With real set, t, x and y stay real.
+func rqi(f *cdense.LU, p *scaledPencil, t complex128, x, y []complex128, real_ bool) (complex128, bool) {
 	n := p.n
 	cx := make([]complex128, n)
 	gx := make([]complex128, n)
+	m := make([]complex128, n*n)
 	for it := 0; it < 8; it++ {
-		f.factor(n, p.g, p.c, t)
+		for i := range m {
+			m[i] = complex(p.g[i], 0) + t*complex(p.c[i], 0)
+		}
+		// A zero pivot (t an eigenvalue to working precision) is
+		// replaced, the remedy of inverse iteration: the solves then
+		// return large multiples of the eigenvectors.
+		f.Factor(m, n)
 		matVec(cx, p.c, x, false)
-		f.solve(cx)
+		f.Solve(cx)
 		copy(x, cx)
 		matVec(cx, p.c, y, true)
-		f.solveH(cx)
+		f.SolveH(cx)
 		copy(y, cx)
 		normalize(x)
 		normalize(y)

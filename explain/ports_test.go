@@ -8,6 +8,7 @@ import (
 
 	"tangent/ac"
 	"tangent/cases"
+	"tangent/internal/cdense"
 )
 
 // Thevenin's and Norton's theorems (any circuit-theory text; from
@@ -116,7 +117,9 @@ func directSolve(p *ac.Problem, s complex128) complex128 {
 	for i := range x {
 		x[i] = complex(p.B[i], 0)
 	}
-	factorC(a, n).solve(x)
+	var f cdense.LU
+	f.Factor(a, n)
+	f.Solve(x)
 	var h complex128
 	for i := range x {
 		h += complex(p.Out[i], 0) * x[i]

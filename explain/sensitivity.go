@@ -7,6 +7,7 @@ import (
 
 	"tangent/ac"
 	"tangent/cases"
+	"tangent/internal/cdense"
 	"tangent/mna"
 )
 
@@ -138,13 +139,15 @@ func (pc *pencil) eigvecs(r complex128) (v, w []complex128, coupling float64, ok
 			a[i*n+j] *= complex(rs[i]*cs[j], 0)
 		}
 	}
-	scaled := append([]complex128(nil), a...)
-	f := factorC(a, n)
+	// Â is singular at the eigenvalue: Factor replaces its zero pivot,
+	// and each solve returns a large multiple of the null vector.
+	var f cdense.LU
+	f.Factor(a, n)
 	x, y := startVector(n), startVector(n)
 	for it := 0; it < inverseSteps; it++ {
-		f.solve(x)
+		f.Solve(x)
 		normInf(x)
-		f.solveT(y)
+		f.SolveT(y)
 		normInf(y)
 	}
 	// Residuals ‖Â·x‖∞ and ‖yᵀ·Â‖∞.
@@ -152,11 +155,11 @@ func (pc *pencil) eigvecs(r complex128) (v, w []complex128, coupling float64, ok
 	for i := 0; i < n; i++ {
 		var sx, sy complex128
 		for j := 0; j < n; j++ {
-			if a := scaled[i*n+j]; a != 0 {
-				sx += a * x[j]
+			if v := a[i*n+j]; v != 0 {
+				sx += v * x[j]
 			}
-			if a := scaled[j*n+i]; a != 0 {
-				sy += y[j] * a
+			if v := a[j*n+i]; v != 0 {
+				sy += y[j] * v
 			}
 		}
 		rx, ry = math.Max(rx, cmplx.Abs(sx)), math.Max(ry, cmplx.Abs(sy))
