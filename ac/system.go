@@ -67,12 +67,13 @@ func systemRoots(bp *borderedPencil, wantZeros bool) (poles, zeros []complex128,
 		if err != nil {
 			return nil, nil, nil, err
 		}
-		// Zeros at the origin: where H(0) is not clearly nonzero (a
-		// singular g, or cancellation in the banded solve at t = 0), on
-		// the balanced original bordered pencil.
-		if _, rho, ok := de.hReal(0); !ok || rho <= 1e-8 {
-			snapSmallest(zeros, originCount(bp.m0, bp.m1, n+1))
-		}
+		// Zeros at the origin, counted exactly on the balanced original
+		// bordered pencil. Always: a zero of H at DC behind a series
+		// capacitor leaves every unknown on the output side exactly zero
+		// at t = 0, so the computed H(0) is rounding noise of the same
+		// relative size as its terms and no test on H(0) can tell it
+		// from a small nonzero value.
+		snapSmallest(zeros, originCount(bp.m0, bp.m1, n+1))
 		if len(zeros) > 0 && 3*len(zeros)*de.band.cost() <= refineBudget(m) {
 			de.refineZeros(zeros, poles)
 		}
