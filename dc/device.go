@@ -23,9 +23,11 @@ type device struct {
 	nt   int               // terminal count
 	term [maxTerminals]int // unknown index of each terminal, −1 ground
 
-	diode devices.Diode
-	bjt   devices.BJT
-	mos   devices.MOSFET
+	// The device's parameters (one is set), shared by the devices of
+	// parts with the same model and scaling; never modified.
+	diode *devices.Diode
+	bjt   *devices.BJT
+	mos   *devices.MOSFET
 
 	v       [3]float64 // controlling voltages of the last evaluation
 	limited bool       // the last evaluation used a limited step
@@ -33,7 +35,7 @@ type device struct {
 	cur [maxTerminals]float64               // I_t, A
 	jac [maxTerminals][maxTerminals]float64 // ∂I_t/∂V_u, S
 	ve  [maxTerminals]float64               // terminal voltages consistent with v
-	slt [maxTerminals][maxTerminals]int     // matrix slot of (term[t], term[u]), −1 none
+	slt [maxTerminals][maxTerminals]int32   // matrix slot of (term[t], term[u]), −1 none
 	row [maxTerminals]bool                  // terminal t carries current
 
 	// Evaluated states, kept for the result.
@@ -42,63 +44,109 @@ type device struct {
 	ms     devices.MOSState
 }
 
-// newDevice builds the device of part p with its model from c, at the
-// given temperature (K). Its terminals are attached later (attach).
-func newDevice(c *cases.Circuit, p *cases.Part, temperature float64) (*device, error) {
+// modelKey identifies the inputs of a device constructor: the model and
+// the part's own scaling. Parts with equal keys get equal device
+// parameters, so each distinct key is built once per circuit.
+type modelKey struct {
+	model                       *cases.Model
+	kind                        cases.Kind
+	area, width, length, factor float64
+}
+
+// newDevice builds into d the device of part p with its model from c, at
+// the given temperature (K). Its terminals are attached later (attach).
+// built holds the devices already built for other parts, by modelKey: a
+// device whose key is there shares their parameters instead of reading
+// the model's keys again.
+func newDevice(d *device, c *cases.Circuit, p *cases.Part, temperature float64, built map[modelKey]*device) error {
 	m, ok := c.Models[p.Model]
 	if !ok || m == nil {
-		return nil, fmt.Errorf("dc: part %s: model %q is not defined", p.Name, p.Model)
+		return fmt.Errorf("dc: part %s: model %q is not defined", p.Name, p.Model)
 	}
-	d := &device{part: p, kind: p.Kind}
+	*d = device{part: p, kind: p.Kind}
 	area := p.Area
 	if area == 0 {
 		area = 1
 	}
+	key := modelKey{model: m, kind: p.Kind, area: area}
 	switch p.Kind {
 	case cases.Diode:
 		if m.Device != cases.DeviceDiode {
-			return nil, fmt.Errorf("dc: part %s: model %q is a %s model, a diode needs a diode model", p.Name, m.Name, m.Device)
+			return fmt.Errorf("dc: part %s: model %q is a %s model, a diode needs a diode model", p.Name, m.Name, m.Device)
 		}
-		d.diode = devices.NewDiode(m.Params, area, temperature)
 		d.nt = 2
 		d.row = [maxTerminals]bool{true, true}
+		if b, ok := built[key]; ok {
+			d.diode = b.diode
+		} else {
+			dd := devices.NewDiode(m.Params, area, temperature)
+			d.diode = &dd
+			built[key] = d
+		}
 	case cases.BJT:
 		if m.Device != cases.DeviceNPN && m.Device != cases.DevicePNP {
-			return nil, fmt.Errorf("dc: part %s: model %q is a %s model, a bjt needs an npn or pnp model", p.Name, m.Name, m.Device)
+			return fmt.Errorf("dc: part %s: model %q is a %s model, a bjt needs an npn or pnp model", p.Name, m.Name, m.Device)
 		}
-		d.bjt = devices.NewBJT(m.Device, m.Params, area, temperature)
 		d.nt = 3
 		d.row = [maxTerminals]bool{true, true, true}
+		if b, ok := built[key]; ok {
+			d.bjt = b.bjt
+		} else {
+			q := devices.NewBJT(m.Device, m.Params, area, temperature)
+			d.bjt = &q
+			built[key] = d
+		}
 	case cases.MOSFET:
 		if m.Device != cases.DeviceNMOS && m.Device != cases.DevicePMOS {
-			return nil, fmt.Errorf("dc: part %s: model %q is a %s model, a mosfet needs an nmos or pmos model", p.Name, m.Name, m.Device)
+			return fmt.Errorf("dc: part %s: model %q is a %s model, a mosfet needs an nmos or pmos model", p.Name, m.Name, m.Device)
 		}
 		mult := p.Multiplier
 		if mult == 0 {
 			mult = 1
 		}
-		d.mos = devices.NewMOSFET(m.Device, m.Params, p.Width, p.Length, mult, temperature)
 		d.nt = 4
 		d.row = [maxTerminals]bool{true, false, true, false} // drain, source
+		key = modelKey{model: m, kind: p.Kind, width: p.Width, length: p.Length, factor: mult}
+		if b, ok := built[key]; ok {
+			d.mos = b.mos
+		} else {
+			mf := devices.NewMOSFET(m.Device, m.Params, p.Width, p.Length, mult, temperature)
+			d.mos = &mf
+			built[key] = d
+		}
 	default:
-		return nil, fmt.Errorf("dc: part %s: %s is not a device", p.Name, p.Kind)
+		return fmt.Errorf("dc: part %s: %s is not a device", p.Name, p.Kind)
 	}
-	return d, nil
+	return nil
 }
 
-// buildDevices builds the devices of c's parts, in part order.
+// buildDevices builds the devices of c's parts, in part order, in one
+// allocation.
 func buildDevices(c *cases.Circuit) ([]*device, error) {
 	t := temperatureOf(c)
-	var devs []*device
+	n := 0
+	for _, p := range c.Parts {
+		if cases.IsDevice(p.Kind) {
+			n++
+		}
+	}
+	if n == 0 {
+		return nil, nil
+	}
+	slab := make([]device, n)
+	devs := make([]*device, n)
+	built := make(map[modelKey]*device, 4)
+	k := 0
 	for _, p := range c.Parts {
 		if !cases.IsDevice(p.Kind) {
 			continue
 		}
-		d, err := newDevice(c, p, t)
-		if err != nil {
+		d := &slab[k]
+		if err := newDevice(d, c, p, t, built); err != nil {
 			return nil, err
 		}
-		devs = append(devs, d)
+		devs[k] = d
+		k++
 	}
 	return devs, nil
 }
@@ -123,7 +171,7 @@ func (d *device) register(p *sparse.Pattern) {
 		for u := 0; u < maxTerminals; u++ {
 			d.slt[t][u] = -1
 			if t < d.nt && u < d.nt && d.row[t] && d.term[t] >= 0 && d.term[u] >= 0 {
-				d.slt[t][u] = p.Slot(d.term[t], d.term[u])
+				d.slt[t][u] = int32(p.Slot(d.term[t], d.term[u]))
 			}
 		}
 	}

@@ -32,13 +32,16 @@ type solver struct {
 	diag   []int     // slot of (i, i) of each node unknown, −1 for branches
 	rowSum []float64 // Σ_j over node columns of G_ij, for the residual scale
 	// G by rows, nonzeros only, for the residual: row i has columns
-	// gCol[gStart[i]:gStart[i+1]] with values gVal.
+	// gCol[gStart[i]:gStart[i+1]] with values gVal; gBranch tells which
+	// columns are branch currents.
 	gStart, gCol []int
 	gVal         []float64
+	gBranch      []bool
 	lu           sparse.LU
 	devs         []*device
 	b            []float64 // DC right-hand side
 	x, xNew      []float64
+	x0           []float64 // start point of the methods (zero unless a guess is given)
 	rhs          []float64
 	f, scale     []float64 // KCL residual and its scale per row
 	dx           []float64 // last update
@@ -75,8 +78,9 @@ func newSolver(c *cases.Circuit, sys *mna.System, devs []*device) (*solver, erro
 	for i, u := range sys.Layout.Unknowns {
 		s.branch[i] = u.Branch
 	}
-	pat := sparse.NewPattern(n)
-	linSlot := make([]int, len(sys.G))
+	pat := sparse.NewPatternSize(n, len(sys.G)+9*len(devs)+n)
+	ints := make([]int, len(sys.G)+2*n+1)
+	linSlot := ints[:len(sys.G)]
 	for k, e := range sys.G {
 		linSlot[k] = pat.Slot(e.Row, e.Col)
 	}
@@ -95,7 +99,7 @@ func newSolver(c *cases.Circuit, sys *mna.System, devs []*device) (*solver, erro
 	if rows, cols := pat.StructuralDefect(); len(rows)+len(cols) > 0 {
 		return nil, s.structuralError(rows, cols)
 	}
-	s.diag = make([]int, n)
+	s.diag = ints[len(sys.G) : len(sys.G)+n]
 	for i := range s.diag {
 		s.diag[i] = -1
 		if !s.branch[i] {
@@ -103,34 +107,48 @@ func newSolver(c *cases.Circuit, sys *mna.System, devs []*device) (*solver, erro
 		}
 	}
 	s.jac = pat.Matrix()
-	s.lin = make([]float64, s.jac.Len())
+	nnz := s.jac.Len()
+	// The float vectors of the solver, in one allocation.
+	fl := make([]float64, 2*nnz+9*n)
+	vec := func(m int) []float64 {
+		v := fl[:m:m]
+		fl = fl[m:]
+		return v
+	}
+	s.lin = vec(nnz)
 	for k, e := range sys.G {
 		s.lin[linSlot[k]] += e.Value
 	}
-	s.rowSum = make([]float64, n)
-	s.gStart = make([]int, n+1)
+	s.rowSum = vec(n)
+	s.gStart = ints[len(sys.G)+n:]
+	s.gCol = make([]int, 0, nnz)
+	s.gVal = vec(nnz)[:0]
+	s.gBranch = make([]bool, 0, nnz)
 	for i := 0; i < n; i++ {
 		for _, k := range s.jac.RowSlots(i) {
 			v := s.lin[k]
 			if v == 0 {
 				continue
 			}
-			_, j := s.jac.Position(k)
+			_, j := s.jac.Position(int(k))
 			if !s.branch[j] {
 				s.rowSum[i] += v
 			}
 			s.gCol = append(s.gCol, j)
 			s.gVal = append(s.gVal, v)
+			s.gBranch = append(s.gBranch, s.branch[j])
 		}
 		s.gStart[i+1] = len(s.gCol)
 	}
-	s.b = append([]float64(nil), sys.DC...)
-	s.x = make([]float64, n)
-	s.xNew = make([]float64, n)
-	s.rhs = make([]float64, n)
-	s.f = make([]float64, n)
-	s.scale = make([]float64, n)
-	s.dx = make([]float64, n)
+	s.b = vec(n)
+	copy(s.b, sys.DC)
+	s.x = vec(n)
+	s.xNew = vec(n)
+	s.rhs = vec(n)
+	s.f = vec(n)
+	s.scale = vec(n)
+	s.dx = vec(n)
+	s.x0 = vec(n)
 	return s, nil
 }
 
@@ -193,28 +211,47 @@ func (s *solver) residual(gh, lam float64) {
 		xi := x[i]
 		var sum float64
 		sc := math.Abs(s.rowSum[i] * xi)
-		for p := s.gStart[i]; p < s.gStart[i+1]; p++ {
-			g, j := s.gVal[p], s.gCol[p]
-			xj := x[j]
+		g0, g1 := s.gStart[i], s.gStart[i+1]
+		gCol, gBranch := s.gCol[g0:g1], s.gBranch[g0:g1]
+		for p, g := range s.gVal[g0:g1] {
+			xj := x[gCol[p]]
 			sum += g * xj
-			var term float64
-			if s.branch[j] {
-				term = g * xj
-			} else if j != i {
-				term = g * (xj - xi)
+			// The diagonal's term g·(xi − xi) is ±0 and never raises
+			// the scale, which is ≥ 0 (or NaN).
+			d := xj - xi
+			if gBranch[p] {
+				d = xj
 			}
-			if term = math.Abs(term); term > sc {
+			if term := math.Abs(g * d); term > sc {
 				sc = term
 			}
 		}
 		src := lam * s.b[i]
 		sum += gh*xi - src
-		sc = math.Max(sc, math.Max(math.Abs(src), math.Abs(gh*xi)))
+		sc = maxNonNegative(sc, maxNonNegative(math.Abs(src), math.Abs(gh*xi)))
 		s.f[i], s.scale[i] = sum, sc
 	}
 	for _, d := range s.devs {
 		d.addCurrents(s.f, s.scale)
 	}
+}
+
+// maxNonNegative is math.Max for operands that are ≥ +0, +Inf or NaN, as
+// magnitudes are: with no −0 to sort out, ordinary operands take two
+// comparisons.
+func maxNonNegative(a, b float64) float64 {
+	switch {
+	case a > b:
+		return a
+	case b > a:
+		return b
+	case a != a || b != b: // a NaN: +Inf wins over it, as in math.Max
+		if math.IsInf(a, 1) || math.IsInf(b, 1) {
+			return math.Inf(1)
+		}
+		return math.NaN()
+	}
+	return a
 }
 
 // residualOK reports whether every node's residual is within

@@ -172,7 +172,7 @@ func SolveWith(c *cases.Circuit, opt Options) (*OperatingPoint, error) {
 	if err != nil {
 		return nil, err
 	}
-	x0 := make([]float64, s.n)
+	x0 := s.x0
 	if g := opt.Guess; g != nil && g.System != nil {
 		for i, u := range sys.Layout.Unknowns {
 			var j int
@@ -187,11 +187,6 @@ func SolveWith(c *cases.Circuit, opt Options) (*OperatingPoint, error) {
 			}
 		}
 	}
-	type method struct {
-		name Method
-		run  func() attemptResult
-	}
-	methods := []method{{Newton, func() attemptResult { return s.plainNewton(x0) }}}
 	fallbacks := opt.Fallbacks
 	if fallbacks == nil {
 		fallbacks = []Method{ConductanceContinuation, SourceRamp}
@@ -200,24 +195,34 @@ func SolveWith(c *cases.Circuit, opt Options) (*OperatingPoint, error) {
 		fallbacks = nil
 	}
 	for _, f := range fallbacks {
-		switch f {
-		case ConductanceContinuation:
-			methods = append(methods, method{f, func() attemptResult { return s.conductanceContinuation(x0) }})
-		case SourceRamp:
-			methods = append(methods, method{f, s.sourceRamp})
-		default:
+		if f != ConductanceContinuation && f != SourceRamp {
 			return nil, fmt.Errorf("dc: unknown fallback method %q", f)
 		}
 	}
 	var attempts []Attempt
 	var reports []runReport
 	total := 0
-	for _, m := range methods {
-		r := m.run()
+	for k := -1; k < len(fallbacks); k++ {
+		name := Newton
+		if k >= 0 {
+			name = fallbacks[k]
+		}
+		var r attemptResult
+		switch name {
+		case Newton:
+			r = s.plainNewton(x0)
+		case ConductanceContinuation:
+			r = s.conductanceContinuation(x0)
+		default:
+			r = s.sourceRamp()
+		}
 		total += r.iterations
-		attempts = append(attempts, Attempt{Method: m.name, Iterations: r.iterations, Converged: r.converged, Detail: r.detail})
+		if attempts == nil {
+			attempts = make([]Attempt, 0, 1+len(fallbacks))
+		}
+		attempts = append(attempts, Attempt{Method: name, Iterations: r.iterations, Converged: r.converged, Detail: r.detail})
 		if r.converged {
-			op := s.result(trs, attempts, total, m.name, r.helper)
+			op := s.result(trs, attempts, total, name, r.helper)
 			return op, nil
 		}
 		reports = append(reports, s.last)
@@ -226,34 +231,59 @@ func SolveWith(c *cases.Circuit, opt Options) (*OperatingPoint, error) {
 }
 
 // result builds the operating point from the converged solver state.
+// Its tables are carved from a few slabs (one allocation per element
+// type, not per part), and parts are matched to their terminal
+// resistances and unknowns by position rather than by name where the
+// order allows it.
 func (s *solver) result(trs []TerminalResistance, attempts []Attempt, iterations int, m Method, helper float64) *OperatingPoint {
-	x := append([]float64(nil), s.x...)
+	n := s.n
+	fl := make([]float64, 3*n)
+	x := fl[:n:n]
+	copy(x, s.x)
 	op := &OperatingPoint{
 		Circuit: s.c, TerminalResistances: trs, System: s.sys, X: x,
 		Temperature: temperatureOf(s.c), Converged: true, Iterations: iterations,
 		Method: m, HelperConductance: helper, Attempts: attempts, Tolerances: s.opts, devs: s.devs,
 	}
 	l := s.sys.Layout
-	byPart := map[string]*TerminalResistance{}
-	for i := range trs {
-		byPart[trs[i].Part] = &trs[i]
-	}
-	// Internal nodes: those Expand made and mna's sense nodes, which no
-	// part names.
-	named := make([]bool, s.n)
-	op.Residual = make([]float64, s.n)
-	op.ResidualScale = make([]float64, s.n)
-	op.Parts = make([]PartResult, 0, len(s.c.Parts))
-	nterm := 0
+	// Internal nodes: those Expand made (internal[i]) and mna's sense
+	// nodes, which no part names (named[i] false).
+	flags := make([]bool, 2*n)
+	named, internal := flags[:n:n], flags[n:]
+	op.Residual = fl[n : 2*n : 2*n]
+	op.ResidualScale = fl[2*n:]
+	op.Parts = make([]PartResult, len(s.c.Parts))
+	nterm, nv := 0, 0
 	for _, p := range s.c.Parts {
 		nterm += partTerminals(p)
 	}
+	for _, d := range s.devs {
+		nv += d.voltageCount()
+	}
 	slab := make([]TerminalCurrent, nterm) // all parts' terminals in one allocation
-	k := 0                                 // next device
-	for _, p := range s.c.Parts {
-		terms := cases.Terminals(p.Kind)
-		idx := s.sys.Terminals[p.Name]
-		r := PartResult{Name: p.Name, Kind: p.Kind, TerminalResistance: byPart[p.Name]}
+	dr := newDeviceResults(s.devs, nv)
+	var names kindTerminals
+	k, tr := 0, 0 // next device, next terminal resistance
+	for pi, p := range s.c.Parts {
+		terms := names.of(p.Kind)
+		var idx []int
+		var d *device
+		if cases.IsDevice(p.Kind) {
+			d = s.devs[k]
+			k++
+			idx = d.term[:d.nt] // as in s.sys.Terminals, a missing mosfet body filled in
+		} else {
+			idx = s.sys.Terminals[p.Name]
+		}
+		// Fields are set one by one in the zeroed slab: cheaper than
+		// copying whole structs while the garbage collector runs.
+		r := &op.Parts[pi]
+		r.Name, r.Kind = p.Name, p.Kind
+		// Expand lists the terminal resistances in part order.
+		if tr < len(trs) && trs[tr].Part == p.Name {
+			r.TerminalResistance = &trs[tr]
+			tr++
+		}
 		nt := partTerminals(p)
 		r.Terminals, slab = slab[:nt:nt], slab[nt:]
 		for t := range r.Terminals {
@@ -261,18 +291,16 @@ func (s *solver) result(trs []TerminalResistance, attempts []Attempt, iterations
 			if t < len(p.Nodes) {
 				node = p.Nodes[t]
 			}
-			r.Terminals[t] = TerminalCurrent{Terminal: terms[t], Node: node}
+			r.Terminals[t].Terminal, r.Terminals[t].Node = terms[t], node
 		}
-		if cases.IsDevice(p.Kind) {
-			d := s.devs[k]
-			k++
+		if d != nil {
 			for t := range r.Terminals {
 				r.Terminals[t].Current = d.cur[t]
 			}
 			r.Current = d.cur[0]
-			r.Device = d.result()
+			r.Device = dr.next(d)
 		} else {
-			i := s.sys.PartCurrent(p, x)
+			i := s.partCurrent(p, idx, x)
 			r.Current = i
 			r.Terminals[0].Current = i
 			r.Terminals[1].Current = -i
@@ -288,26 +316,72 @@ func (s *solver) result(trs []TerminalResistance, attempts []Attempt, iterations
 			if i >= 0 {
 				named[i] = true
 				op.Residual[i] += tc.Current
-				op.ResidualScale[i] = math.Max(op.ResidualScale[i], math.Abs(tc.Current))
+				op.ResidualScale[i] = maxNonNegative(op.ResidualScale[i], math.Abs(tc.Current))
 			}
 		}
-		op.Parts = append(op.Parts, r)
 	}
-	internal := map[string]bool{}
 	for i := range trs {
-		internal[trs[i].Inner] = true
+		if j, ok := l.Node(trs[i].Inner); ok && j >= 0 {
+			internal[j] = true
+		}
 	}
+	nodes := 0
+	for _, u := range l.Unknowns {
+		if !u.Branch {
+			nodes++
+		}
+	}
+	op.Nodes = make([]NodeVoltage, 0, nodes)
 	for i, u := range l.Unknowns {
 		if u.Branch {
 			continue
 		}
-		op.Nodes = append(op.Nodes, NodeVoltage{Name: u.Name, Voltage: x[i], Internal: internal[u.Name] || !named[i]})
+		op.Nodes = append(op.Nodes, NodeVoltage{Name: u.Name, Voltage: x[i], Internal: internal[i] || !named[i]})
 		if helper > 0 {
 			op.Residual[i] += helper * x[i]
-			op.ResidualScale[i] = math.Max(op.ResidualScale[i], math.Abs(helper*x[i]))
+			op.ResidualScale[i] = maxNonNegative(op.ResidualScale[i], math.Abs(helper*x[i]))
 		}
 	}
 	return op
+}
+
+// partCurrent is mna's PartCurrent for the linear part p with terminal
+// unknowns idx. Resistors and capacitors that control no other part (their
+// first terminal is their own node, not an mna sense node) are computed
+// here with the same formula, without PartCurrent's lookups by name.
+func (s *solver) partCurrent(p *cases.Part, idx []int, x []float64) float64 {
+	if p.Kind == cases.Resistor || p.Kind == cases.Capacitor {
+		if i := idx[0]; i < 0 || s.sys.Layout.Unknowns[i].Name == p.Nodes[0] {
+			if p.Kind == cases.Capacitor {
+				return 0
+			}
+			return mna.Voltage(x, idx[0], idx[1]) / p.Value
+		}
+	}
+	return s.sys.PartCurrent(p, x)
+}
+
+// kindTerminals remembers cases.Terminals per kind: that function builds
+// a new slice at every call. A kind not among the first few is looked up
+// every time.
+type kindTerminals struct {
+	n     int
+	kinds [8]cases.Kind
+	names [8][]string
+}
+
+func (c *kindTerminals) of(k cases.Kind) []string {
+	for i := 0; i < c.n; i++ {
+		if c.kinds[i] == k {
+			return c.names[i]
+		}
+	}
+	t := cases.Terminals(k)
+	if c.n < len(c.kinds) {
+		c.kinds[c.n], c.names[c.n] = k, t
+		c.n++
+	}
+	return t
 }
 
 // partTerminals returns the number of terminals reported for p: its
@@ -319,29 +393,86 @@ func partTerminals(p *cases.Part) int {
 	return len(p.Nodes)
 }
 
-// result describes an evaluated device.
-func (d *device) result() *DeviceResult {
-	r := &DeviceResult{}
+// deviceResults hands out the DeviceResults of a circuit's devices, with
+// their voltages and model copies carved from slabs.
+type deviceResults struct {
+	res      []DeviceResult
+	voltages []NamedVoltage
+	diodes   []devices.Diode
+	bjts     []devices.BJT
+	mosfets  []devices.MOSFET
+}
+
+// newDeviceResults sizes the slabs for devs, whose voltages number nv.
+func newDeviceResults(devs []*device, nv int) *deviceResults {
+	var nd, nb, nm int
+	for _, d := range devs {
+		switch d.kind {
+		case cases.Diode:
+			nd++
+		case cases.BJT:
+			nb++
+		default:
+			nm++
+		}
+	}
+	r := &deviceResults{res: make([]DeviceResult, len(devs)), voltages: make([]NamedVoltage, nv)}
+	if nd > 0 {
+		r.diodes = make([]devices.Diode, nd)
+	}
+	if nb > 0 {
+		r.bjts = make([]devices.BJT, nb)
+	}
+	if nm > 0 {
+		r.mosfets = make([]devices.MOSFET, nm)
+	}
+	return r
+}
+
+// voltageCount returns the number of named voltages the device reports.
+func (d *device) voltageCount() int {
 	switch d.kind {
 	case cases.Diode:
-		dd := d.diode
-		r.Diode, r.DiodeCurrent, r.DiodeConductance = &dd, d.di, d.dg
+		return 1
+	default:
+		return 3
+	}
+}
+
+// next describes the evaluated device d.
+func (dr *deviceResults) next(d *device) *DeviceResult {
+	r := &dr.res[0]
+	dr.res = dr.res[1:]
+	nv := d.voltageCount()
+	v := dr.voltages[:nv:nv]
+	dr.voltages = dr.voltages[nv:]
+	switch d.kind {
+	case cases.Diode:
+		dd := &dr.diodes[0]
+		dr.diodes = dr.diodes[1:]
+		*dd = *d.diode
+		r.Diode, r.DiodeCurrent, r.DiodeConductance = dd, d.di, d.dg
 		r.Region = dd.Region(d.v[0])
-		r.Voltages = []NamedVoltage{{"ak", d.v[0]}}
+		v[0] = NamedVoltage{"ak", d.v[0]}
 		r.MaxPower = dd.MaxPower
 	case cases.BJT:
-		q := d.bjt
-		r.BJT, r.BJTState = &q, d.bs
+		q := &dr.bjts[0]
+		dr.bjts = dr.bjts[1:]
+		*q = *d.bjt
+		r.BJT, r.BJTState = q, d.bs
 		r.Region = q.Region(d.v[0], d.v[1])
-		r.Voltages = []NamedVoltage{{"be", d.v[0]}, {"bc", d.v[1]}, {"ce", d.v[0] - d.v[1]}}
+		v[0], v[1], v[2] = NamedVoltage{"be", d.v[0]}, NamedVoltage{"bc", d.v[1]}, NamedVoltage{"ce", d.v[0] - d.v[1]}
 		r.MaxPower = q.MaxPower
 	default:
-		m := d.mos
-		r.MOSFET, r.MOSState = &m, d.ms
+		m := &dr.mosfets[0]
+		dr.mosfets = dr.mosfets[1:]
+		*m = *d.mos
+		r.MOSFET, r.MOSState = m, d.ms
 		r.Region = d.ms.Region
-		r.Voltages = []NamedVoltage{{"gs", d.v[0]}, {"ds", d.v[1]}, {"bs", d.v[2]}}
+		v[0], v[1], v[2] = NamedVoltage{"gs", d.v[0]}, NamedVoltage{"ds", d.v[1]}, NamedVoltage{"bs", d.v[2]}
 		r.MaxPower = m.MaxPower
 	}
+	r.Voltages = v
 	return r
 }
 

@@ -2,6 +2,7 @@ package dc
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -178,4 +179,66 @@ func TestDeviceControlsCCCS(t *testing.T) {
 		t.Errorf("I(D1) = %g A, I(R1) = %g A", id, ir)
 	}
 	checkBalance(t, op, 1e-9, 1e-14)
+}
+
+// Parts that share a model but not its scaling (area, width, multiplier)
+// each get their own parameters; parts that share both share them. Each
+// device sits directly across ideal sources, so its current is the closed
+// form of its equation: the Shockley law I = area·Is·(e^(V/VT) − 1)
+// (DESIGN.md) and the square law in saturation
+// Id = (k′/2)·m·(W/L)·(Vgs − Vt)² (DESIGN.md).
+func TestSharedModelScaling(t *testing.T) {
+	const (
+		is, vd   = 2e-14, 0.55
+		kp, vt   = 120e-6, 0.7
+		vgs, vds = 1.5, 3.0
+		length   = 2e-6
+	)
+	ms := map[string]*cases.Model{
+		"d": model(cases.DeviceDiode, map[string]float64{"saturation_current": is}),
+		"n": model(cases.DeviceNMOS, map[string]float64{"threshold_voltage": vt, "process_transconductance": kp, "length": length}),
+	}
+	parts := []*cases.Part{vsrc("VD", "a", "gnd", vd), vsrc("VG", "g", "gnd", vgs), vsrc("VDS", "dr", "gnd", vds)}
+	areas := []float64{1, 3, 1, 0.5}
+	for k, a := range areas {
+		d := diode(fmt.Sprintf("D%d", k), "d", "a", "gnd")
+		d.Area = a
+		parts = append(parts, d)
+	}
+	type mosCase struct{ width, mult float64 }
+	mosCases := []mosCase{{10e-6, 1}, {30e-6, 1}, {10e-6, 2}, {10e-6, 1}}
+	for k, c := range mosCases {
+		m := mos(fmt.Sprintf("M%d", k), "n", "dr", "g", "gnd", "gnd")
+		m.Width, m.Multiplier = c.width, c.mult
+		parts = append(parts, m)
+	}
+	op, err := Solve(build(ms, parts...))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, a := range areas {
+		want := a * is * math.Expm1(vd/vtRoom)
+		if got := op.Part(fmt.Sprintf("D%d", k)).Current; !near(got, want, 1e-12, 0) {
+			t.Errorf("D%d (area %g): I = %g A, want %g A", k, a, got, want)
+		}
+	}
+	for k, c := range mosCases {
+		want := kp / 2 * c.mult * c.width / length * (vgs - vt) * (vgs - vt)
+		if got := op.Part(fmt.Sprintf("M%d", k)).Current; !near(got, want, 1e-12, 0) {
+			t.Errorf("M%d (W %g m, m %g): Id = %g A, want %g A", k, c.width, c.mult, got, want)
+		}
+	}
+}
+
+// maxNonNegative is math.Max (standard library) on magnitudes: +0,
+// positive numbers, +Inf and NaN.
+func TestMaxNonNegative(t *testing.T) {
+	values := []float64{0, 5e-324, 1e-300, 1, 2, 5e300, math.MaxFloat64, math.Inf(1), math.NaN()}
+	for _, a := range values {
+		for _, b := range values {
+			if got, want := maxNonNegative(a, b), math.Max(a, b); math.Float64bits(got) != math.Float64bits(want) {
+				t.Errorf("maxNonNegative(%g, %g) = %g, math.Max gives %g", a, b, got, want)
+			}
+		}
+	}
 }

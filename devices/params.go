@@ -123,15 +123,39 @@ func Params(kind string) []Param {
 	return nil
 }
 
+// defaults holds each table's defaults by key, built once from the tables
+// above and never modified: lookup costs one map access instead of a scan
+// of the table per key.
+var (
+	diodeDefaults = defaultsOf(diodeParams)
+	bjtDefaults   = defaultsOf(bjtParams)
+	mosDefaults   = defaultsOf(mosParams)
+)
+
+func defaultsOf(table []Param) map[string]float64 {
+	m := make(map[string]float64, len(table))
+	for _, p := range table {
+		m[p.Key] = p.Default
+	}
+	return m
+}
+
 // lookup returns params[key] or the table default for that key.
 func lookup(kind string, params map[string]float64, key string) float64 {
 	if v, ok := params[key]; ok {
 		return v
 	}
-	for _, p := range Params(kind) {
-		if p.Key == key {
-			return p.Default
-		}
+	var defs map[string]float64
+	switch kind {
+	case KindDiode:
+		defs = diodeDefaults
+	case KindNPN, KindPNP:
+		defs = bjtDefaults
+	case KindNMOS, KindPMOS:
+		defs = mosDefaults
+	}
+	if v, ok := defs[key]; ok {
+		return v
 	}
 	panic("devices: unknown parameter " + key)
 }

@@ -98,6 +98,16 @@ func (l *Layout) AddNode(name string) int {
 	return i
 }
 
+// firstUnknown returns the index of the first node unknown named name.
+func (l *Layout) firstUnknown(name string) int {
+	for i, u := range l.Unknowns {
+		if !u.Branch && u.Name == name {
+			return i
+		}
+	}
+	return -1
+}
+
 // AddBranch adds a branch current for a part and returns its index.
 func (l *Layout) AddBranch(part string) int {
 	if i, ok := l.branches[part]; ok {
@@ -134,19 +144,42 @@ const senseSuffix = ":sense"
 func Build(c *cases.Circuit) (*System, error) {
 	// Maps and slices are sized up front: growing them dominated the cost
 	// of Build on large circuits.
+	var controls map[string]bool // nil, and free to query, when no part is controlled
+	for _, p := range c.Parts {
+		if p.Kind == cases.CCCS || p.Kind == cases.CCVS {
+			if controls == nil {
+				controls = map[string]bool{}
+			}
+			controls[p.Control] = true
+		}
+	}
+	extra := 0 // branch currents and sense nodes
+	for _, p := range c.Parts {
+		if hasBranch(p.Kind) || controls[p.Name] {
+			extra++
+		}
+		if controls[p.Name] && !hasBranch(p.Kind) {
+			extra++
+		}
+	}
 	l := &Layout{
-		Unknowns: make([]Unknown, 0, len(c.Nodes)+len(c.Parts)),
+		Unknowns: make([]Unknown, 0, len(c.Nodes)+extra),
 		nodes:    make(map[string]int, len(c.Nodes)),
 		branches: map[string]int{},
 	}
 	for _, n := range c.Nodes {
-		l.AddNode(n)
-	}
-	controls := map[string]bool{}
-	for _, p := range c.Parts {
-		if p.Kind == cases.CCCS || p.Kind == cases.CCVS {
-			controls[p.Control] = true
+		// AddNode without its lookup: one map access per node. A name
+		// listed twice keeps its first index.
+		if n == cases.Ground {
+			continue
 		}
+		i, before := len(l.Unknowns), len(l.nodes)
+		l.nodes[n] = i
+		if len(l.nodes) == before {
+			l.nodes[n] = l.firstUnknown(n)
+			continue
+		}
+		l.Unknowns = append(l.Unknowns, Unknown{Name: n})
 	}
 	s := &System{Layout: l, Terminals: make(map[string][]int, len(c.Parts))}
 	nt := 0
@@ -154,6 +187,7 @@ func Build(c *cases.Circuit) (*System, error) {
 		nt += len(p.Nodes)
 	}
 	slab := make([]int, nt)
+	slabAll := slab // for stamping, below
 	// Terminal indices, with sense nodes for controlling parts.
 	for _, p := range c.Parts {
 		idx := slab[:len(p.Nodes):len(p.Nodes)]
@@ -180,11 +214,38 @@ func Build(c *cases.Circuit) (*System, error) {
 		}
 	}
 	n := l.Size()
-	s.G = make(Triplets, 0, 4*len(c.Parts))
+	// Room for the entries stamp writes, ground terminals included.
+	ng, nc := 0, 0
+	for _, p := range c.Parts {
+		if controls[p.Name] && !hasBranch(p.Kind) {
+			ng += 4 // sense branch
+		}
+		switch p.Kind {
+		case cases.Resistor, cases.VoltageSource, cases.VCCS:
+			ng += 4
+		case cases.Capacitor:
+			nc += 4
+		case cases.Inductor:
+			ng += 4
+			nc++
+		case cases.VCVS:
+			ng += 6
+		case cases.CCCS:
+			ng += 2
+		case cases.CCVS:
+			ng += 5
+		}
+	}
+	s.G = make(Triplets, 0, ng)
+	s.C = make(Triplets, 0, nc)
 	s.DC = make([]float64, n)
 	s.AC = make([]complex128, n)
 	for _, p := range c.Parts {
-		if err := s.stamp(c, p, controls[p.Name]); err != nil {
+		// The terminal indices, in the order they were carved above
+		// (cheaper than looking each part up in s.Terminals).
+		t := slabAll[:len(p.Nodes):len(p.Nodes)]
+		slabAll = slabAll[len(p.Nodes):]
+		if err := s.stamp(p, t, controls[p.Name]); err != nil {
 			return nil, err
 		}
 	}
@@ -200,8 +261,8 @@ func hasBranch(k cases.Kind) bool {
 	return false
 }
 
-func (s *System) stamp(c *cases.Circuit, p *cases.Part, control bool) error {
-	t := s.Terminals[p.Name]
+// stamp stamps part p, whose terminals are the unknowns t.
+func (s *System) stamp(p *cases.Part, t []int, control bool) error {
 	if control && !hasBranch(p.Kind) {
 		// Zero-volt sense source from the real first terminal to the
 		// internal node: its branch current is the part's current.

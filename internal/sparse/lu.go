@@ -50,22 +50,36 @@ type LU struct {
 	m    *Matrix // the matrix the order was analysed for
 	done bool    // a pivot order exists for m's pattern
 
-	rowPerm, colPerm []int // step → original row, column
-	colStep          []int // original column → step
+	// Index arrays are int32, like Matrix's.
+	rowPerm, colPerm []int32 // step → original row, column
+	colStep          []int32 // original column → step
 
 	// Rows of P·A·Q: for step k, aSlot[aStart[k]:aStart[k+1]] are the
 	// slots of A's row rowPerm[k] and aCol the steps of their columns.
-	aStart, aSlot, aCol []int
+	aStart, aSlot, aCol []int32
+	// Fill of row k: the steps of L and U's row k (diagonal included)
+	// where A's row has no entry, zCol[zStart[k]:zStart[k+1]].
+	zStart, zCol []int32
 	// L (unit diagonal not stored): row k has columns lCol[lStart[k]:lStart[k+1]]
 	// in ascending order.
-	lStart, lCol []int
+	lStart, lCol []int32
 	lVal         []float64
 	// U without the diagonal: row k has columns uCol[uStart[k]:uStart[k+1]] (all > k).
-	uStart, uCol []int
+	uStart, uCol []int32
 	uVal         []float64
 	uDiag        []float64
 
 	w []float64 // dense work row, length n
+
+	// Rows whose inputs did not change keep their factors: aPrev holds
+	// the values of A (in aSlot order) the factors were last computed
+	// from by refactor, and rowChanged marks the rows the current
+	// refactor recomputed. Factors from an analysis are always
+	// recomputed once (aValid false): the analysis orders its arithmetic
+	// differently, which can leave a zero of the other sign.
+	aPrev      []float64
+	rowChanged []int32 // 1: recomputed
+	aValid     bool
 
 	// Analyses counts the pivot-order analyses done (the first one and
 	// every re-analysis forced by a tiny pivot).
@@ -98,38 +112,76 @@ func sameMatrixPattern(a, b *Matrix) bool {
 
 // refactor redoes the arithmetic of the stored pivot order (row-by-row
 // Doolittle elimination on a dense work row). It reports false when a
-// pivot fails the refactor threshold.
+// pivot fails the refactor threshold. The work row starts as A's row: its
+// entries are written as 0 + a_ij (the sum a zeroed row would hold, sign
+// of zero included) and only the fill positions are zeroed.
+//
+// A row whose entries of A are bitwise those of the last refactor, and
+// whose L entries refer only to rows that were not recomputed either, has
+// exactly the factors it had: it is skipped. In a Newton iteration these
+// are the rows of the linear parts that no device reaches.
 func (f *LU) refactor(m *Matrix) bool {
 	w := f.w
+	vals := m.Values
+	lStart, lCol, lVal := f.lStart, f.lCol, f.lVal
+	uStart, uCol, uVal, uDiag := f.uStart, f.uCol, f.uVal, f.uDiag
+	aPrev, changed := f.aPrev, f.rowChanged
+	valid := f.aValid
+	f.aValid = false // until this refactor completes
 	for k := 0; k < f.n; k++ {
-		l0, l1 := f.lStart[k], f.lStart[k+1]
-		u0, u1 := f.uStart[k], f.uStart[k+1]
-		for _, j := range f.lCol[l0:l1] {
+		a0, a1 := f.aStart[k], f.aStart[k+1]
+		aCol, aSlot, prev := f.aCol[a0:a1], f.aSlot[a0:a1], aPrev[a0:a1]
+		l0, l1 := lStart[k], lStart[k+1]
+		if valid {
+			same := true
+			for p, s := range aSlot {
+				if math.Float64bits(vals[s]) != math.Float64bits(prev[p]) {
+					same = false
+					break
+				}
+			}
+			if same {
+				for _, c := range lCol[l0:l1] {
+					if changed[c] != 0 {
+						same = false
+						break
+					}
+				}
+			}
+			if same {
+				changed[k] = 0
+				continue
+			}
+			changed[k] = 1
+		}
+		for _, j := range f.zCol[f.zStart[k]:f.zStart[k+1]] {
 			w[j] = 0
 		}
-		for _, j := range f.uCol[u0:u1] {
-			w[j] = 0
+		for p, s := range aSlot {
+			v := vals[s]
+			prev[p] = v
+			w[aCol[p]] = 0 + v
 		}
-		w[k] = 0
-		for p := f.aStart[k]; p < f.aStart[k+1]; p++ {
-			w[f.aCol[p]] += m.Values[f.aSlot[p]]
-		}
-		for p := l0; p < l1; p++ {
-			c := f.lCol[p]
-			l := w[c] / f.uDiag[c]
-			f.lVal[p] = l
+		lv := lVal[l0:l1]
+		for p, c := range lCol[l0:l1] {
+			l := w[c] / uDiag[c]
+			lv[p] = l
 			if l == 0 {
 				continue
 			}
-			for q := f.uStart[c]; q < f.uStart[c+1]; q++ {
-				w[f.uCol[q]] -= l * f.uVal[q]
+			q0, q1 := uStart[c], uStart[c+1]
+			uv := uVal[q0:q1]
+			for q, j := range uCol[q0:q1] {
+				w[j] -= l * uv[q]
 			}
 		}
 		piv := w[k]
 		big := math.Abs(piv)
-		for p := u0; p < u1; p++ {
-			v := w[f.uCol[p]]
-			f.uVal[p] = v
+		u0, u1 := uStart[k], uStart[k+1]
+		uv := uVal[u0:u1]
+		for p, j := range uCol[u0:u1] {
+			v := w[j]
+			uv[p] = v
 			if a := math.Abs(v); a > big {
 				big = a
 			}
@@ -137,8 +189,14 @@ func (f *LU) refactor(m *Matrix) bool {
 		if piv == 0 || math.IsNaN(piv) || math.Abs(piv) < RefactorThreshold*big {
 			return false
 		}
-		f.uDiag[k] = piv
+		uDiag[k] = piv
 	}
+	if !valid {
+		for k := range changed {
+			changed[k] = 1
+		}
+	}
+	f.aValid = true
 	return true
 }
 
@@ -168,12 +226,12 @@ func (f *LU) Solve(x, b []float64) {
 // Fill returns the number of entries of L and U (diagonal included).
 func (f *LU) Fill() int { return len(f.lCol) + len(f.uCol) + f.n }
 
-// arena hands out int slices carved from one allocation.
-type arena []int
+// arena hands out slices carved from one allocation.
+type arena[T any] []T
 
-func (a *arena) take(n int) []int {
+func (a *arena[T]) take(n int) []T {
 	if n > len(*a) {
-		*a = make([]int, n)
+		*a = make([]T, n)
 	}
 	s := (*a)[:n:n]
 	*a = (*a)[n:]
@@ -184,10 +242,10 @@ func (a *arena) take(n int) []int {
 // their count of active entries, so that the Markowitz search can visit
 // the sparsest first.
 type countList struct {
-	head, next, prev, count []int
+	head, next, prev, count []int32
 }
 
-func newCountList(n int, ar *arena) countList {
+func newCountList(n int, ar *arena[int32]) countList {
 	c := countList{head: ar.take(n + 2), next: ar.take(n), prev: ar.take(n), count: ar.take(n)}
 	for i := range c.head {
 		c.head[i] = -1
@@ -195,9 +253,9 @@ func newCountList(n int, ar *arena) countList {
 	return c
 }
 
-func (c *countList) insert(i, cnt int) {
-	if cnt >= len(c.head) {
-		cnt = len(c.head) - 1
+func (c *countList) insert(i, cnt int32) {
+	if int(cnt) >= len(c.head) {
+		cnt = int32(len(c.head) - 1)
 	}
 	c.count[i] = cnt
 	c.prev[i] = -1
@@ -208,7 +266,7 @@ func (c *countList) insert(i, cnt int) {
 	c.head[cnt] = i
 }
 
-func (c *countList) remove(i int) {
+func (c *countList) remove(i int32) {
 	if c.prev[i] >= 0 {
 		c.next[c.prev[i]] = c.next[i]
 	} else {
@@ -219,84 +277,150 @@ func (c *countList) remove(i int) {
 	}
 }
 
-func (c *countList) set(i, cnt int) {
+func (c *countList) set(i, cnt int32) {
 	c.remove(i)
 	c.insert(i, cnt)
+}
+
+// lines is a set of growable int32 lists (the rows or the columns of the
+// active submatrix) in one slab: list k is at[k] … at[k]+size[k] of items,
+// with room for room[k] items there. A list that outgrows its room moves to
+// the end of the slab (appending to the slab may move the slab itself).
+type lines struct {
+	at, size, room []int32
+	items          []int32
+	vals           []float64 // parallel to items, or nil
+}
+
+// list returns the items of list k.
+func (l *lines) list(k int32) []int32 {
+	a := l.at[k]
+	return l.items[a : a+l.size[k]]
+}
+
+// values returns the values of list k.
+func (l *lines) values(k int32) []float64 {
+	a := l.at[k]
+	return l.vals[a : a+l.size[k]]
+}
+
+// full reports whether list k has no room left for another item.
+func (l *lines) full(k int32) bool { return l.size[k] == l.room[k] }
+
+// grow returns the lines with list k moved to the end of the slab, with
+// room for twice its items and rowSlack more. (It returns the lines
+// rather than updating them in place so that a slab on the stack stays
+// there.)
+func (l lines) grow(k int32) lines {
+	a, sz := l.at[k], l.size[k]
+	room := 2*sz + rowSlack
+	at := int32(len(l.items))
+	l.items = append(l.items, l.items[a:a+sz]...)
+	l.items = append(l.items, make([]int32, room-sz)...)
+	if l.vals != nil {
+		l.vals = append(l.vals, l.vals[a:a+sz]...)
+		l.vals = append(l.vals, make([]float64, room-sz)...)
+	}
+	l.at[k], l.room[k] = at, room
+	return l
+}
+
+// push appends item (and value v, if the lines have values) to list k,
+// which must not be full.
+func (l *lines) push(k, item int32, v float64) {
+	p := l.at[k] + l.size[k]
+	l.items[p] = item
+	if l.vals != nil {
+		l.vals[p] = v
+	}
+	l.size[k]++
 }
 
 // analysis is the state of one pivot-order analysis: the active
 // submatrix by rows (columns and values) and, for the search, the rows of
 // each column (lazily pruned of rows that left the active submatrix).
+// Indices are int32 to halve the memory the analysis touches.
 type analysis struct {
 	n         int
-	rowCols   [][]int
-	rowVals   [][]float64
+	rows      lines     // row i: its active columns and their values
 	rowMax    []float64 // max |a_ij| over the active row
-	colRows   [][]int
-	rowActive []bool
-	colActive []bool
+	cols      lines     // column j: rows that have (or had) an entry in it
+	rowActive []int32   // 1: the row is active (int32, to share the arena)
+	colActive []int32
 	rl, cl    countList
 }
 
-// rowSlack is the spare capacity given to each row for fill-in before it
-// must grow; circuit rows rarely gain more.
+// rowSlack is the spare room given to each row and column for fill-in
+// before it must move; circuit rows rarely gain more.
 const rowSlack = 4
 
-func newAnalysis(m *Matrix, ar *arena) *analysis {
+// newAnalysis sets up the analysis of m, carving its arrays from the
+// arenas.
+func newAnalysis(m *Matrix, ar *arena[int32], fr *arena[float64]) analysis {
 	n := m.n
-	active := make([]bool, 2*n)
-	floats := make([]float64, n+len(m.rows)+rowSlack*n)
-	a := &analysis{
-		n: n, rowCols: make([][]int, n), rowVals: make([][]float64, n), rowMax: floats[:n:n],
-		colRows: make([][]int, n), rowActive: active[:n:n], colActive: active[n:],
+	nnz := len(m.rows)
+	active := ar.take(2 * n)
+	a := analysis{
+		n: n, rowMax: fr.take(n), rowActive: active[:n:n], colActive: active[n:],
 		rl: newCountList(n, ar), cl: newCountList(n, ar),
 	}
-	colSlab := ar.take(len(m.rows) + rowSlack*n)
-	valSlab := floats[n:]
-	colCount := ar.take(n)
+	a.rows = lines{at: ar.take(n), size: ar.take(n), room: ar.take(n),
+		items: ar.take(nnz + rowSlack*n), vals: fr.take(nnz + rowSlack*n)}
+	a.cols = lines{at: ar.take(n), size: ar.take(n), room: ar.take(n),
+		items: ar.take(nnz + rowSlack*n)}
 	for _, j := range m.cols {
-		colCount[j]++
+		a.cols.room[j]++
 	}
-	rowsSlab := ar.take(len(m.rows) + rowSlack*n)
-	off := 0
+	off := int32(0)
 	for j := 0; j < n; j++ {
-		a.colRows[j] = rowsSlab[off : off : off+colCount[j]+rowSlack]
-		off += colCount[j] + rowSlack
+		a.cols.at[j] = off
+		a.cols.room[j] += rowSlack
+		off += a.cols.room[j]
 	}
 	off = 0
 	for i := 0; i < n; i++ {
 		slots := m.RowSlots(i)
-		c := colSlab[off : off+len(slots) : off+len(slots)+rowSlack]
-		v := valSlab[off : off+len(slots) : off+len(slots)+rowSlack]
-		off += len(slots) + rowSlack
+		a.rows.at[i], a.rows.size[i], a.rows.room[i] = off, int32(len(slots)), int32(len(slots)+rowSlack)
+		c := a.rows.items[off : off+int32(len(slots))]
+		v := a.rows.vals[off : off+int32(len(slots))]
+		off += int32(len(slots) + rowSlack)
 		var big float64
 		for p, s := range slots {
 			j := m.cols[s]
-			c[p] = j
+			c[p] = int32(j)
 			v[p] = m.Values[s]
 			if x := math.Abs(v[p]); x > big {
 				big = x
 			}
-			a.colRows[j] = append(a.colRows[j], i)
+			a.cols.items[a.cols.at[j]+a.cols.size[j]] = int32(i)
+			a.cols.size[j]++
 		}
-		a.rowCols[i], a.rowVals[i], a.rowMax[i] = c, v, big
+		a.rowMax[i] = big
 	}
 	for i := n - 1; i >= 0; i-- { // reverse, so that each list starts with its lowest index
-		a.rowActive[i], a.colActive[i] = true, true
-		a.rl.insert(i, len(a.rowCols[i]))
-		a.cl.insert(i, len(a.colRows[i]))
+		a.rowActive[i], a.colActive[i] = 1, 1
+		a.rl.insert(int32(i), a.rows.size[i])
+		a.cl.insert(int32(i), a.cols.size[i])
 	}
 	return a
 }
 
-func (a *analysis) valueAt(i, j int) float64 {
-	for p, c := range a.rowCols[i] {
+func (a *analysis) valueAt(i, j int32) float64 {
+	for p, c := range a.rows.list(i) {
 		if c == j {
-			return a.rowVals[i][p]
+			return a.rows.vals[a.rows.at[i]+int32(p)]
 		}
 	}
 	return 0
 }
+
+// Sizes of the stack buffers for an analysis's temporaries: enough for
+// circuits of about a hundred unknowns (a few tens of kilobytes of
+// stack), which then need no heap for them.
+const (
+	stackInts   = 3072
+	stackFloats = 1024
+)
 
 // analyse chooses a pivot order from m's values (restricted Markowitz with
 // the threshold test), factors m on the way, and lays out the static
@@ -306,24 +430,36 @@ func (f *LU) analyse(m *Matrix) error {
 	f.Analyses++
 	f.done = false
 	nnz := len(m.rows)
-	// All int arrays of the analysis and of the result come from one
-	// allocation (the lists that grow with fill may move out of it).
-	ar := arena(make([]int, (18+2*rowSlack)*n+9*nnz+8))
-	a := newAnalysis(m, &ar)
+	// Temporaries: every int32 array from one buffer and every float64
+	// array from another, on the stack when they fit (lists that grow
+	// with fill may move out of them). L and U share nnz − n + fill
+	// entries: each gets room for about half of them and the fill of a
+	// few per row before it must grow.
+	half := max(nnz-n, 0)/2 + n
+	var ibuf [stackInts]int32
+	var fbuf [stackFloats]float64
+	ar := arena[int32](ibuf[:])
+	if need := 30*n + 2*nnz + 3*half + 5; need > len(ar) {
+		ar = make([]int32, need)
+	}
+	fr := arena[float64](fbuf[:])
+	if need := 6*n + nnz + 2*half; need > len(fr) {
+		fr = make([]float64, need)
+	}
+	a := newAnalysis(m, &ar, &fr)
 	pos := ar.take(n) // scatter: column → position in the row being updated, −1 none
 	for i := range pos {
 		pos[i] = -1
 	}
-	rowPerm := ar.take(n)
-	colPerm := ar.take(n)
 	// L entries as (original row, step, value), in step order.
-	lRow, lStep := ar.take(nnz)[:0], ar.take(nnz)[:0]
-	lVal := make([]float64, 0, nnz)
+	lRow, lStep := ar.take(half)[:0], ar.take(half)[:0]
+	lVal := fr.take(half)[:0]
 	// U rows by step, original column numbers: uc[us[k]:us[k+1]].
+	uc := ar.take(half)[:0]
+	uv := fr.take(half)[:0]
 	us := ar.take(n + 1)
-	uc := ar.take(nnz)[:0]
-	uv := make([]float64, 0, nnz)
-	uDiag := make([]float64, n)
+	uDiag := fr.take(n)
+	rowPerm, colPerm := ar.take(n), ar.take(n)
 
 	for k := 0; k < n; k++ {
 		p, q, ok := a.search()
@@ -331,100 +467,122 @@ func (f *LU) analyse(m *Matrix) error {
 			return a.singular()
 		}
 		rowPerm[k], colPerm[k] = p, q
-		a.rowActive[p], a.colActive[q] = false, false
+		a.rowActive[p], a.colActive[q] = 0, 0
 		a.rl.remove(p)
 		a.cl.remove(q)
 		// The pivot row leaves the active submatrix: it becomes U's row k.
 		var piv float64
-		for t, j := range a.rowCols[p] {
+		pv := a.rows.values(p)
+		for t, j := range a.rows.list(p) {
 			if j == q {
-				piv = a.rowVals[p][t]
+				piv = pv[t]
 				continue
 			}
 			uc = append(uc, j)
-			uv = append(uv, a.rowVals[p][t])
+			uv = append(uv, pv[t])
 			a.cl.set(j, a.cl.count[j]-1)
 		}
-		us[k+1] = len(uc)
+		us[k+1] = int32(len(uc))
 		uDiag[k] = piv
 		ucols, uvals := uc[us[k]:], uv[us[k]:]
 		// Eliminate column q from the other active rows.
-		for _, i := range a.colRows[q] {
-			if !a.rowActive[i] {
+		for _, i := range a.cols.list(q) {
+			if a.rowActive[i] == 0 {
 				continue
 			}
-			rc, rv := a.rowCols[i], a.rowVals[i]
+			rc, rv := a.rows.list(i), a.rows.values(i)
 			var aiq float64
 			for t, j := range rc {
 				if j == q {
 					aiq = rv[t]
 					last := len(rc) - 1
 					rc[t], rv[t] = rc[last], rv[last]
-					rc, rv = rc[:last], rv[:last]
+					a.rows.size[i]--
 					break
 				}
 			}
 			l := aiq / piv
 			lRow = append(lRow, i)
-			lStep = append(lStep, k)
+			lStep = append(lStep, int32(k))
 			lVal = append(lVal, l)
-			for t, j := range rc {
-				pos[j] = t
+			for t, j := range a.rows.list(i) {
+				pos[j] = int32(t)
 			}
 			for t, j := range ucols {
 				if pt := pos[j]; pt >= 0 {
-					rv[pt] -= l * uvals[t]
+					a.rows.vals[a.rows.at[i]+pt] -= l * uvals[t]
 					continue
 				}
-				pos[j] = len(rc)
-				rc = append(rc, j)
-				rv = append(rv, -l*uvals[t])
-				a.colRows[j] = append(a.colRows[j], i)
+				pos[j] = a.rows.size[i]
+				if a.rows.full(i) {
+					a.rows = a.rows.grow(i)
+				}
+				a.rows.push(i, j, -l*uvals[t])
+				if a.cols.full(j) {
+					a.cols = a.cols.grow(j)
+				}
+				a.cols.push(j, i, 0)
 				a.cl.set(j, a.cl.count[j]+1)
 			}
 			var big float64
-			for t, j := range rc {
+			rv = a.rows.values(i)
+			for t, j := range a.rows.list(i) {
 				pos[j] = -1
 				if x := math.Abs(rv[t]); x > big {
 					big = x
 				}
 			}
-			a.rowCols[i], a.rowVals[i], a.rowMax[i] = rc, rv, big
-			a.rl.set(i, len(rc))
+			a.rowMax[i] = big
+			a.rl.set(i, a.rows.size[i])
 		}
-		a.colRows[q] = nil
+		a.cols.size[q] = 0
 	}
+	f.layout(m, rowPerm, colPerm, lRow, lStep, lVal, us, uc, uv, uDiag, &ar)
+	return nil
+}
 
-	// Lay out the static structures in step numbering.
+// layout lays out the static structures of the factorization in step
+// numbering from the analysis's results: the pivot order, L's entries as
+// (original row, step, value) in step order, and U's rows by step with
+// original column numbers, uc[us[k]:us[k+1]]. The structures that persist
+// take one int and one float64 allocation.
+func (f *LU) layout(m *Matrix, rowPerm, colPerm, lRow, lStep []int32, lVal []float64,
+	us, uc []int32, uv, uDiag []float64, ar *arena[int32]) {
+	n, nnz, nl, nu := m.n, len(m.rows), len(lRow), len(uc)
+	nz := n + nl + nu - nnz // fill, exact: A's entries are a subset of L, U and the diagonal
+	ir := arena[int32](make([]int32, 8*n+4+2*nnz+nl+nu+nz))
+	fv := arena[float64](make([]float64, nl+nu+2*n+nnz))
 	f.n, f.m = n, m
-	f.rowPerm, f.colPerm = rowPerm, colPerm
-	f.colStep = ar.take(n)
+	f.rowPerm, f.colPerm = ir.take(n), ir.take(n)
+	copy(f.rowPerm, rowPerm)
+	copy(f.colPerm, colPerm)
+	f.colStep = ir.take(n)
 	rowStep := ar.take(n)
-	for k := range colPerm {
-		f.colStep[colPerm[k]] = k
-		rowStep[rowPerm[k]] = k
-	}
-	f.aStart = ar.take(n + 1)
-	f.aSlot = ar.take(nnz)[:0]
-	f.aCol = ar.take(nnz)[:0]
 	for k := 0; k < n; k++ {
-		for _, s := range m.RowSlots(rowPerm[k]) {
+		f.colStep[colPerm[k]] = int32(k)
+		rowStep[rowPerm[k]] = int32(k)
+	}
+	f.aStart = ir.take(n + 1)
+	f.aSlot = ir.take(nnz)[:0]
+	f.aCol = ir.take(nnz)[:0]
+	for k := 0; k < n; k++ {
+		for _, s := range m.RowSlots(int(rowPerm[k])) {
 			f.aSlot = append(f.aSlot, s)
 			f.aCol = append(f.aCol, f.colStep[m.cols[s]])
 		}
-		f.aStart[k+1] = len(f.aSlot)
+		f.aStart[k+1] = int32(len(f.aSlot))
 	}
 	// L by rows in step numbering: a counting sort of the entries, which
 	// keeps each row's steps ascending.
-	f.lStart = ar.take(n + 1)
+	f.lStart = ir.take(n + 1)
 	for _, i := range lRow {
 		f.lStart[rowStep[i]+1]++
 	}
 	for k := 0; k < n; k++ {
 		f.lStart[k+1] += f.lStart[k]
 	}
-	f.lCol = ar.take(len(lRow))
-	f.lVal = make([]float64, len(lRow))
+	f.lCol = ir.take(nl)
+	f.lVal = fv.take(nl)
 	next := ar.take(n)
 	copy(next, f.lStart[:n])
 	for e, i := range lRow {
@@ -433,18 +591,45 @@ func (f *LU) analyse(m *Matrix) error {
 		f.lVal[next[k]] = lVal[e]
 		next[k]++
 	}
-	f.uStart = us
-	f.uCol = ar.take(len(uc))
+	f.uStart = ir.take(n + 1)
+	copy(f.uStart, us)
+	f.uCol = ir.take(nu)
 	for t, j := range uc {
 		f.uCol[t] = f.colStep[j]
 	}
-	f.uVal = uv
-	f.uDiag = uDiag
-	if len(f.w) != n {
-		f.w = make([]float64, n)
+	f.uVal = fv.take(nu)
+	copy(f.uVal, uv)
+	f.uDiag = fv.take(n)
+	copy(f.uDiag, uDiag)
+	f.w = fv.take(n)
+	f.aPrev = fv.take(nnz)
+	f.rowChanged = ir.take(n)
+	f.aValid = false
+	// The fill of each row: its L, U and diagonal steps not in A's row.
+	mark := next // reused: step → 1 + the last row with an A entry there
+	clear(mark)
+	f.zStart = ir.take(n + 1)
+	f.zCol = ir.take(max(nz, 0))[:0]
+	for k := int32(0); int(k) < n; k++ {
+		for _, j := range f.aCol[f.aStart[k]:f.aStart[k+1]] {
+			mark[j] = k + 1
+		}
+		if mark[k] != k+1 {
+			f.zCol = append(f.zCol, k)
+		}
+		for _, j := range f.lCol[f.lStart[k]:f.lStart[k+1]] {
+			if mark[j] != k+1 {
+				f.zCol = append(f.zCol, j)
+			}
+		}
+		for _, j := range f.uCol[f.uStart[k]:f.uStart[k+1]] {
+			if mark[j] != k+1 {
+				f.zCol = append(f.zCol, j)
+			}
+		}
+		f.zStart[k+1] = int32(len(f.zCol))
 	}
 	f.done = true
-	return nil
 }
 
 // searchLimit is how many rows and columns the pivot search visits once
@@ -460,27 +645,28 @@ const searchLimit = 4
 // unvisited entry can cost less, or searchLimit lines after the first
 // candidate. Ties keep the first candidate found, or the larger
 // |a_ij|/max_k|a_ik|, so the order is deterministic.
-func (a *analysis) search() (p, q int, ok bool) {
+func (a *analysis) search() (p, q int32, ok bool) {
 	best := math.MaxInt
 	bestRatio := 0.0
 	visited := 0
 	for c := 1; c <= a.n; c++ {
 		// Columns with c active entries.
 		for j := a.cl.head[c]; j >= 0; j = a.cl.next[j] {
-			live := a.colRows[j][:0]
-			for _, i := range a.colRows[j] {
-				if a.rowActive[i] {
+			all := a.cols.list(j)
+			live := all[:0]
+			for _, i := range all {
+				if a.rowActive[i] != 0 {
 					live = append(live, i)
 				}
 			}
-			a.colRows[j] = live
+			a.cols.size[j] = int32(len(live))
 			cc := c - 1
 			for _, i := range live {
 				v := math.Abs(a.valueAt(i, j))
 				if v == 0 || !(v >= AnalysisThreshold*a.rowMax[i]) {
 					continue
 				}
-				cost := (a.rl.count[i] - 1) * cc
+				cost := (int(a.rl.count[i]) - 1) * cc
 				ratio := v / a.rowMax[i]
 				if cost < best || (cost == best && ratio > bestRatio) {
 					best, bestRatio, p, q, ok = cost, ratio, i, j, true
@@ -497,12 +683,13 @@ func (a *analysis) search() (p, q int, ok bool) {
 		for i := a.rl.head[c]; i >= 0; i = a.rl.next[i] {
 			rmax := a.rowMax[i]
 			cr := c - 1
-			for t, j := range a.rowCols[i] {
-				v := math.Abs(a.rowVals[i][t])
+			rv := a.rows.values(i)
+			for t, j := range a.rows.list(i) {
+				v := math.Abs(rv[t])
 				if v == 0 || !(v >= AnalysisThreshold*rmax) {
 					continue
 				}
-				cost := cr * (a.cl.count[j] - 1)
+				cost := cr * (int(a.cl.count[j]) - 1)
 				ratio := v / rmax
 				if cost < best || (cost == best && ratio > bestRatio) {
 					best, bestRatio, p, q, ok = cost, ratio, i, j, true
@@ -526,21 +713,21 @@ func (a *analysis) search() (p, q int, ok bool) {
 func (a *analysis) singular() error {
 	e := &SingularError{}
 	for i, act := range a.rowActive {
-		if act {
+		if act != 0 {
 			e.Rows = append(e.Rows, i)
-			if len(a.rowCols[i]) == 0 {
+			if a.rows.size[i] == 0 {
 				e.Structural = true
 			}
 		}
 	}
 	for j, act := range a.colActive {
-		if !act {
+		if act == 0 {
 			continue
 		}
 		e.Cols = append(e.Cols, j)
 		live := false
-		for _, i := range a.colRows[j] {
-			live = live || a.rowActive[i]
+		for _, i := range a.cols.list(int32(j)) {
+			live = live || a.rowActive[i] != 0
 		}
 		if !live {
 			e.Structural = true

@@ -24,76 +24,137 @@ import "fmt"
 
 // Pattern collects the positions (row, column) of a matrix's structural
 // nonzeros and gives each position a slot: an index into Matrix.Values.
-// The slots of a row form a linked list through next, so that adding a
-// position allocates nothing but amortized growth of three flat slices.
+// The slots of a row form a linked list through next (for
+// StructuralDefect); an open-addressing hash table from position to slot
+// finds a position in constant time however long its row. Indices are
+// int32: half the memory of int, and 2³¹ slots is far beyond any circuit.
 type Pattern struct {
 	n    int
-	head []int // first slot of each row, −1 none
-	next []int // next slot of the same row, −1 none
-	rows []int // row of each slot
-	cols []int // column of each slot
+	head []int32 // first slot of each row, −1 none
+	next []int32 // next slot of the same row, −1 none
+	rows []int32 // row of each slot
+	cols []int32 // column of each slot
+
+	// table[h] is 1 + the slot hashed to entry h, 0 for an empty entry
+	// (linear probing). Its length is a power of two, at least twice the
+	// number of slots.
+	table []int32
+	shift uint // 64 − log2(len(table))
 }
 
 // NewPattern returns an empty pattern for an n×n matrix.
-func NewPattern(n int) *Pattern {
-	p := &Pattern{n: n, head: make([]int, n)}
+func NewPattern(n int) *Pattern { return NewPatternSize(n, 0) }
+
+// NewPatternSize returns an empty pattern for an n×n matrix with room for
+// about size positions before its buffers grow.
+func NewPatternSize(n, size int) *Pattern {
+	size = max(size, 8)
+	p := &Pattern{n: n}
+	ints := make([]int32, n+3*size)
+	p.head = ints[:n:n]
+	p.next = ints[n : n : n+size]
+	p.rows = ints[n+size : n+size : n+2*size]
+	p.cols = ints[n+2*size : n+2*size : n+3*size]
 	for i := range p.head {
 		p.head[i] = -1
 	}
+	p.rehash(size)
 	return p
 }
 
+// rehash sizes the hash table for size slots and enters every slot.
+func (p *Pattern) rehash(size int) {
+	m, shift := 16, uint(60)
+	for m < size {
+		m, shift = 2*m, shift-1
+	}
+	p.table, p.shift = make([]int32, m), shift
+	for s := range p.rows {
+		p.table[p.find(int(p.rows[s]), int(p.cols[s]))] = int32(s + 1)
+	}
+}
+
+// find returns the hash-table entry of position (i, j): the one holding
+// its slot, or the empty one where it belongs.
+func (p *Pattern) find(i, j int) int {
+	mask := len(p.table) - 1
+	// Fibonacci hashing: the top bits of the key times 2⁶⁴/φ spread
+	// consecutive keys over the table (Knuth, TAOCP vol. 3, §6.4, from
+	// memory).
+	h := int(uint64(i*p.n+j) * 0x9E3779B97F4A7C15 >> p.shift)
+	for {
+		e := p.table[h]
+		if e == 0 {
+			return h
+		}
+		if s := e - 1; int(p.rows[s]) == i && int(p.cols[s]) == j {
+			return h
+		}
+		h = (h + 1) & mask
+	}
+}
+
 // Slot returns the slot of position (i, j), adding the position when it
-// is new. It panics when i or j is outside [0, n). Rows of circuit
-// matrices are short, so a row is searched linearly.
+// is new. It panics when i or j is outside [0, n).
 func (p *Pattern) Slot(i, j int) int {
 	if i < 0 || j < 0 || i >= p.n || j >= p.n {
 		panic(fmt.Sprintf("sparse: position (%d, %d) outside a %d×%d matrix", i, j, p.n, p.n))
 	}
-	for k := p.head[i]; k >= 0; k = p.next[k] {
-		if p.cols[k] == j {
-			return k
-		}
+	h := p.find(i, j)
+	if e := p.table[h]; e != 0 {
+		return int(e - 1)
 	}
 	s := len(p.rows)
 	p.next = append(p.next, p.head[i])
-	p.head[i] = s
-	p.rows = append(p.rows, i)
-	p.cols = append(p.cols, j)
+	p.head[i] = int32(s)
+	p.rows = append(p.rows, int32(i))
+	p.cols = append(p.cols, int32(j))
+	if 2*len(p.rows) > len(p.table) {
+		p.rehash(4 * len(p.rows))
+	} else {
+		p.table[h] = int32(s + 1)
+	}
 	return s
 }
 
 // Matrix returns a matrix over the pattern with all values zero. Positions
 // added to the pattern afterwards are not part of the matrix.
 func (p *Pattern) Matrix() *Matrix {
+	n, nnz := p.n, len(p.rows)
+	ints := make([]int32, 2*nnz+2*(n+1))
 	m := &Matrix{
-		n:      p.n,
-		rows:   append([]int(nil), p.rows...),
-		cols:   append([]int(nil), p.cols...),
-		Values: make([]float64, len(p.rows)),
+		n: n,
+		// Shared with the pattern: later positions are appended
+		// beyond nnz and never change these.
+		rows:   p.rows[:nnz:nnz],
+		cols:   p.cols[:nnz:nnz],
+		Values: make([]float64, nnz),
 	}
-	// Compressed rows: slots of each row in ascending column order.
-	m.rowStart = make([]int, p.n+1)
-	for _, i := range m.rows {
-		m.rowStart[i+1]++
+	// Compressed rows: slots of each row in ascending column order, by a
+	// counting sort on the column and then a stable one on the row.
+	m.rowSlots = ints[:nnz:nnz]
+	m.rowStart = ints[nnz : nnz+n+1 : nnz+n+1]
+	colStart := ints[nnz+n+1 : nnz+2*(n+1)]
+	byCol := ints[nnz+2*(n+1):] // the slots in column order
+	for s := 0; s < nnz; s++ {
+		colStart[m.cols[s]+1]++
+		m.rowStart[m.rows[s]+1]++
 	}
-	for i := 0; i < p.n; i++ {
+	for i := 0; i < n; i++ {
+		colStart[i+1] += colStart[i]
 		m.rowStart[i+1] += m.rowStart[i]
 	}
-	m.rowSlots = make([]int, len(m.rows))
-	next := append([]int(nil), m.rowStart[:p.n]...)
-	for s, i := range m.rows {
+	for s := 0; s < nnz; s++ {
+		j := m.cols[s]
+		byCol[colStart[j]] = int32(s)
+		colStart[j]++
+	}
+	next := colStart[:n] // reused: next free place of each row
+	copy(next, m.rowStart[:n])
+	for _, s := range byCol {
+		i := m.rows[s]
 		m.rowSlots[next[i]] = s
 		next[i]++
-	}
-	for i := 0; i < p.n; i++ {
-		// Insertion sort: rows are short, and it allocates nothing.
-		r := m.rowSlots[m.rowStart[i]:m.rowStart[i+1]]
-		for a := 1; a < len(r); a++ {
-			for b := a; b > 0 && m.cols[r[b]] < m.cols[r[b-1]]; b-- {
-				r[b], r[b-1] = r[b-1], r[b]
-			}
-		}
 	}
 	return m
 }
@@ -102,9 +163,9 @@ func (p *Pattern) Matrix() *Matrix {
 // of slot s. Values may be changed freely; the pattern may not.
 type Matrix struct {
 	n          int
-	rows, cols []int // position of each slot
-	rowStart   []int // slots of row i: rowSlots[rowStart[i]:rowStart[i+1]]
-	rowSlots   []int
+	rows, cols []int32 // position of each slot
+	rowStart   []int32 // slots of row i: rowSlots[rowStart[i]:rowStart[i+1]]
+	rowSlots   []int32
 	Values     []float64
 }
 
@@ -115,11 +176,11 @@ func (m *Matrix) N() int { return m.n }
 func (m *Matrix) Len() int { return len(m.Values) }
 
 // Position returns the row and column of slot s.
-func (m *Matrix) Position(s int) (i, j int) { return m.rows[s], m.cols[s] }
+func (m *Matrix) Position(s int) (i, j int) { return int(m.rows[s]), int(m.cols[s]) }
 
 // RowSlots returns the slots of row i in ascending column order. The
 // slice belongs to the matrix and must not be modified.
-func (m *Matrix) RowSlots(i int) []int { return m.rowSlots[m.rowStart[i]:m.rowStart[i+1]] }
+func (m *Matrix) RowSlots(i int) []int32 { return m.rowSlots[m.rowStart[i]:m.rowStart[i+1]] }
 
 // Zero sets every value to zero.
 func (m *Matrix) Zero() { clear(m.Values) }
@@ -151,19 +212,21 @@ func (m *Matrix) MulVec(y, x []float64) {
 // otherwise. The matching is found by augmenting paths (Kuhn's method).
 func (p *Pattern) StructuralDefect() (rows, cols []int) {
 	n := p.n
-	colMatch := make([]int, n) // row matched to each column, −1 none
+	work := make([]int32, 3*n)
+	colMatch := work[:n:n] // row matched to each column, −1 none
 	for j := range colMatch {
 		colMatch[j] = -1
 	}
-	rowMatch := make([]int, n)
-	visited := make([]int, n) // visit stamp per column
+	rowMatch := work[n : 2*n : 2*n]
+	visited := work[2*n:] // visit stamp per column
 	for j := range visited {
 		visited[j] = -1
 	}
 	// Iterative depth-first search for an augmenting path from row r.
-	type frame struct{ row, next int } // next: the row's next slot to try
-	stack := make([]frame, 0, 16)
-	for r := 0; r < n; r++ {
+	type frame struct{ row, next int32 } // next: the row's next slot to try
+	var stack []frame
+	var path []int32 // column chosen at each depth
+	for r := int32(0); int(r) < n; r++ {
 		rowMatch[r] = -1
 		// Cheap pass: a free column in the row.
 		for k := p.head[r]; k >= 0; k = p.next[k] {
@@ -176,7 +239,7 @@ func (p *Pattern) StructuralDefect() (rows, cols []int) {
 			continue
 		}
 		stack = append(stack[:0], frame{r, p.head[r]})
-		path := make([]int, 0, 8) // column chosen at each depth
+		path = path[:0]
 		found := false
 		for len(stack) > 0 && !found {
 			f := &stack[len(stack)-1]
