@@ -5,7 +5,7 @@ import (
 	"math"
 )
 
-// Helper-conductance continuation (also called gmin stepping) and source
+// Helper-conductance continuation and supply (source)
 // ramping are artificial-parameter homotopies: a parameter deforms the
 // equations from an easy problem into the real one, and Newton follows the
 // solution along the way, each stage starting from the last. Both are

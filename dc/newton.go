@@ -311,9 +311,10 @@ func (s *solver) newton(gh, lam float64, maxIter int) bool {
 	s.last = runReport{}
 	for k := 0; ; k++ {
 		limited := s.evaluate(k > 0)
-		if k > 0 && !limited {
+		// The residual is only needed once the update has settled.
+		if k > 0 && !limited && s.updateOK() {
 			s.residual(gh, lam)
-			if s.updateOK() && s.residualOK() {
+			if s.residualOK() {
 				s.last.iterations, s.last.converged = k, true
 				return true
 			}
