@@ -128,42 +128,21 @@ func TwoPortAt(c *cases.Circuit, p1, p2 string, fHz float64) (TwoPort, error) {
 }
 
 // unityAbove finds the first frequency above refHz (Hz) where |H| falls
-// through 1: a log scan at 40 points per decade from refHz (or a decade
-// below the smallest nonzero root) to three decades above the largest
-// root, then bisection on the exact factored |H|.
+// through 1, on the scan grid of Bandwidth (see grid) refined by crossing.
 func unityAbove(r *Rational, refHz float64) (float64, bool) {
 	if r.K0 == 0 || math.IsInf(refHz, 0) {
 		return 0, false
 	}
-	lo, hi := math.Inf(1), 0.0
-	for _, z := range append(append([]complex128(nil), r.Poles...), r.Zeros...) {
-		if a := cmplx.Abs(z); a > 0 {
-			lo, hi = math.Min(lo, a), math.Max(hi, a)
-		}
+	w := r.grid() // nil when every root is at the origin: |H| is a power of ω
+	wref := 2 * math.Pi * refHz
+	i := 0
+	for i < len(w) && w[i] < wref {
+		i++
 	}
-	if hi == 0 {
-		return 0, false // no root but the origin: |H| is a constant or a power of ω
-	}
-	w0 := math.Max(2*math.Pi*refHz, lo/10)
-	w1 := hi * 1000
-	mag := func(w float64) float64 { return cmplx.Abs(r.Eval(complex(0, w))) }
-	prev := w0
-	above := mag(prev) > 1
-	for w := w0; w <= w1; w *= math.Pow(10, 1.0/40) {
-		now := mag(w) > 1
-		if above && !now {
-			a, b := prev, w
-			for i := 0; i < 100 && b-a > 1e-13*b; i++ {
-				m := math.Sqrt(a * b)
-				if mag(m) > 1 {
-					a = m
-				} else {
-					b = m
-				}
-			}
-			return math.Sqrt(a*b) / (2 * math.Pi), true
+	for ; i+1 < len(w); i++ {
+		if r.logMag(w[i+1]) < 0 && r.logMag(w[i]) >= 0 {
+			return r.crossing(w[i], w[i+1], 0) / (2 * math.Pi), true
 		}
-		above, prev = now, w
 	}
 	return 0, false
 }
