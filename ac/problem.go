@@ -195,24 +195,31 @@ func findPort(c *cases.Circuit, name string) (*cases.Port, error) {
 	return nil, fmt.Errorf("ac: no port %q", name)
 }
 
-// locate finds a port's unknowns. For a source port, plus and minus are
-// the nodes the source drives: a voltage source's plus and minus, a
-// current source's to and from (its current enters the circuit at to).
-// A node pair that is exactly the terminals of a voltage source (same
-// orientation) is that source's port: the zeroed source would otherwise
-// short any test source put across it.
-func locate(sys *mna.System, c *cases.Circuit, p *cases.Port) (portNodes, error) {
-	pn := portNodes{branch: -1}
-	if p.Source == "" {
-		for _, part := range c.Parts {
-			if part.Kind == cases.VoltageSource && part.Nodes[0] == p.Plus && part.Nodes[1] == p.Minus {
-				q := *p
-				q.Source = part.Name
-				p = &q
-				break
-			}
+// SourcePort returns p, or, when p is a node pair that is exactly the
+// terminals of a voltage source (same orientation), a copy of p naming
+// that source: the zeroed source would otherwise short any test source
+// put across the pair, so the pair is the source's port.
+func SourcePort(c *cases.Circuit, p *cases.Port) *cases.Port {
+	if p.Source != "" {
+		return p
+	}
+	for _, part := range c.Parts {
+		if part.Kind == cases.VoltageSource && part.Nodes[0] == p.Plus && part.Nodes[1] == p.Minus {
+			q := *p
+			q.Source = part.Name
+			return &q
 		}
 	}
+	return p
+}
+
+// locate finds a port's unknowns. For a source port (see SourcePort),
+// plus and minus are the nodes the source drives: a voltage source's plus
+// and minus, a current source's to and from (its current enters the
+// circuit at to).
+func locate(sys *mna.System, c *cases.Circuit, p *cases.Port) (portNodes, error) {
+	pn := portNodes{branch: -1}
+	p = SourcePort(c, p)
 	if p.Source != "" {
 		for _, part := range c.Parts {
 			if part.Name != p.Source {

@@ -108,18 +108,7 @@ const zeroedDriveName = "explain:zeroed_drive"
 // left out, a current source stays open). Parts are shared, not copied; c
 // is not modified.
 func zeroedDrive(c *cases.Circuit, dp *cases.Port, voltageDrive bool) (*cases.Circuit, error) {
-	if dp.Source == "" {
-		// A node pair that is exactly a voltage source's terminals is that
-		// source's port (as ac.Setup has it).
-		for _, p := range c.Parts {
-			if p.Kind == cases.VoltageSource && p.Nodes[0] == dp.Plus && p.Nodes[1] == dp.Minus {
-				d := *dp
-				d.Source = p.Name
-				dp = &d
-				break
-			}
-		}
-	}
+	dp = ac.SourcePort(c, dp) // as ac.Setup reads the port
 	q := *c
 	q.Parts = make([]*cases.Part, 0, len(c.Parts)+1)
 	found := dp.Source == ""
