@@ -34,13 +34,15 @@ func TestTransferJSON(t *testing.T) {
 	var poles []struct{ Re, Im float64 }
 	json.Unmarshal(tr["poles"], &poles)
 	// Unity-gain Sallen-Key: ω0² = 1/(R1R2C1C2) (any active-filter text,
-	// from memory); the example's product of poles must equal it.
+	// from memory); the example's product of poles must equal it, with
+	// R1 = R2 = 10 kΩ, C1 = 22 nF, C2 = 10 nF, up to the follower's
+	// 1/A = 1e-5 error (A = 100 dB).
 	if len(poles) != 2 {
 		t.Fatalf("poles %v", poles)
 	}
 	w0sq := poles[0].Re*poles[1].Re - poles[0].Im*poles[1].Im
-	if math.Abs(w0sq) < 1e3 {
-		t.Errorf("ω0² = %g", w0sq)
+	if want := 1 / (10e3 * 10e3 * 22e-9 * 10e-9); math.Abs(w0sq-want) > 1e-4*want {
+		t.Errorf("ω0² = %g, want %g", w0sq, want)
 	}
 	var dc float64
 	json.Unmarshal(tr["dc_gain"], &dc)
