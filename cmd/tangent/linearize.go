@@ -197,11 +197,6 @@ func printLinearize(w io.Writer, file string, eq *smallsignal.Equivalent) {
 				{"c_j", formatEng(p.CJ, "F"), "c_d", formatEng(p.CD, "F")},
 			}
 		}
-		for _, r := range rows {
-			for len(r) < 6 {
-				r = append(r, "")
-			}
-		}
 		writeTable(w, "  ", []bool{false, true, false, true, false, true}, padRows(rows, 6))
 		fmt.Fprintf(w, "  small-signal range: v%s %s\n", d.Input, swingText(d.SwingMinus, d.SwingPlus))
 	}
