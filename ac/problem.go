@@ -221,11 +221,11 @@ func locate(sys *mna.System, c *cases.Circuit, p *cases.Port) (portNodes, error)
 	pn := portNodes{branch: -1}
 	p = SourcePort(c, p)
 	if p.Source != "" {
-		for _, part := range c.Parts {
+		for k, part := range c.Parts {
 			if part.Name != p.Source {
 				continue
 			}
-			t := sys.Terminals[part.Name]
+			t := sys.Terminals[k]
 			pn.source = part
 			switch part.Kind {
 			case cases.VoltageSource:

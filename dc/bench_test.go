@@ -66,6 +66,42 @@ func BenchmarkChain(b *testing.B) {
 	}
 }
 
+// BenchmarkChainPrepared times the operating point of chains of N stages
+// set up once with Prepare: each Solve runs Newton from zero (9
+// iterations at every N) and builds the result tables.
+func BenchmarkChainPrepared(b *testing.B) {
+	for _, n := range []int{1, 10, 100} {
+		p, err := Prepare(amplifierChain(n))
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Run(fmt.Sprintf("N=%d", n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := p.Solve(Options{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+// BenchmarkPrepare times the set-up alone (devices, expansion, equations,
+// pattern, pivot order, result layout) of chains of N stages.
+func BenchmarkPrepare(b *testing.B) {
+	for _, n := range []int{1, 10, 100} {
+		c := amplifierChain(n)
+		b.Run(fmt.Sprintf("N=%d", n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := Prepare(c); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
 // BenchmarkExamples times the operating point of each embedded example.
 func BenchmarkExamples(b *testing.B) {
 	for _, name := range cases.Examples() {

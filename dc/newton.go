@@ -85,13 +85,13 @@ func newSolver(c *cases.Circuit, sys *mna.System, devs []*device) (*solver, erro
 		linSlot[k] = pat.Slot(e.Row, e.Col)
 	}
 	k := 0
-	for _, p := range c.Parts {
+	for pi, p := range c.Parts {
 		if !cases.IsDevice(p.Kind) {
 			continue
 		}
 		d := devs[k]
 		k++
-		d.attach(p, sys.Terminals[p.Name])
+		d.attach(p, sys.Terminals[pi])
 		d.register(pat)
 	}
 	// Structural check before the helper-conductance diagonal joins the

@@ -1,7 +1,6 @@
 package dc
 
 import (
-	"fmt"
 	"math"
 
 	"tangent/cases"
@@ -74,8 +73,6 @@ type OperatingPoint struct {
 	// terminal current magnitude at the node.
 	Residual      []float64
 	ResidualScale []float64
-
-	devs []*device
 }
 
 // NodeVoltage is the voltage of one node to ground.
@@ -154,211 +151,13 @@ func SolveFrom(c *cases.Circuit, guess *OperatingPoint) (*OperatingPoint, error)
 	return SolveWith(c, Options{Guess: guess})
 }
 
-// SolveWith is Solve with options.
+// SolveWith is Solve with options: Prepare, then Prepared.Solve.
 func SolveWith(c *cases.Circuit, opt Options) (*OperatingPoint, error) {
-	devs, err := buildDevices(c)
+	p, err := Prepare(c)
 	if err != nil {
 		return nil, err
 	}
-	ex, trs, err := expand(c, devs)
-	if err != nil {
-		return nil, err
-	}
-	sys, err := mna.Build(ex)
-	if err != nil {
-		return nil, err
-	}
-	s, err := newSolver(ex, sys, devs)
-	if err != nil {
-		return nil, err
-	}
-	x0 := s.x0
-	if g := opt.Guess; g != nil && g.System != nil {
-		for i, u := range sys.Layout.Unknowns {
-			var j int
-			var ok bool
-			if u.Branch {
-				j, ok = g.System.Layout.Branch(u.Name)
-			} else {
-				j, ok = g.System.Layout.Node(u.Name)
-			}
-			if ok && j >= 0 && j < len(g.X) {
-				x0[i] = g.X[j]
-			}
-		}
-	}
-	fallbacks := opt.Fallbacks
-	if fallbacks == nil {
-		fallbacks = []Method{ConductanceContinuation, SourceRamp}
-	}
-	if opt.NoFallbacks {
-		fallbacks = nil
-	}
-	for _, f := range fallbacks {
-		if f != ConductanceContinuation && f != SourceRamp {
-			return nil, fmt.Errorf("dc: unknown fallback method %q", f)
-		}
-	}
-	var attempts []Attempt
-	var reports []runReport
-	total := 0
-	for k := -1; k < len(fallbacks); k++ {
-		name := Newton
-		if k >= 0 {
-			name = fallbacks[k]
-		}
-		var r attemptResult
-		switch name {
-		case Newton:
-			r = s.plainNewton(x0)
-		case ConductanceContinuation:
-			r = s.conductanceContinuation(x0)
-		default:
-			r = s.sourceRamp()
-		}
-		total += r.iterations
-		if attempts == nil {
-			attempts = make([]Attempt, 0, 1+len(fallbacks))
-		}
-		attempts = append(attempts, Attempt{Method: name, Iterations: r.iterations, Converged: r.converged, Detail: r.detail})
-		if r.converged {
-			op := s.result(trs, attempts, total, name, r.helper)
-			return op, nil
-		}
-		reports = append(reports, s.last)
-	}
-	return nil, s.noConvergence(attempts, reports)
-}
-
-// result builds the operating point from the converged solver state.
-// Its tables are carved from a few slabs (one allocation per element
-// type, not per part), and parts are matched to their terminal
-// resistances and unknowns by position rather than by name where the
-// order allows it.
-func (s *solver) result(trs []TerminalResistance, attempts []Attempt, iterations int, m Method, helper float64) *OperatingPoint {
-	n := s.n
-	fl := make([]float64, 3*n)
-	x := fl[:n:n]
-	copy(x, s.x)
-	op := &OperatingPoint{
-		Circuit: s.c, TerminalResistances: trs, System: s.sys, X: x,
-		Temperature: temperatureOf(s.c), Converged: true, Iterations: iterations,
-		Method: m, HelperConductance: helper, Attempts: attempts, Tolerances: s.opts, devs: s.devs,
-	}
-	l := s.sys.Layout
-	// Internal nodes: those Expand made (internal[i]) and mna's sense
-	// nodes, which no part names (named[i] false).
-	flags := make([]bool, 2*n)
-	named, internal := flags[:n:n], flags[n:]
-	op.Residual = fl[n : 2*n : 2*n]
-	op.ResidualScale = fl[2*n:]
-	op.Parts = make([]PartResult, len(s.c.Parts))
-	nterm, nv := 0, 0
-	for _, p := range s.c.Parts {
-		nterm += partTerminals(p)
-	}
-	for _, d := range s.devs {
-		nv += d.voltageCount()
-	}
-	slab := make([]TerminalCurrent, nterm) // all parts' terminals in one allocation
-	dr := newDeviceResults(s.devs, nv)
-	var names kindTerminals
-	k, tr := 0, 0 // next device, next terminal resistance
-	for pi, p := range s.c.Parts {
-		terms := names.of(p.Kind)
-		var idx []int
-		var d *device
-		if cases.IsDevice(p.Kind) {
-			d = s.devs[k]
-			k++
-			idx = d.term[:d.nt] // as in s.sys.Terminals, a missing mosfet body filled in
-		} else {
-			idx = s.sys.Terminals[p.Name]
-		}
-		// Fields are set one by one in the zeroed slab: cheaper than
-		// copying whole structs while the garbage collector runs.
-		r := &op.Parts[pi]
-		r.Name, r.Kind = p.Name, p.Kind
-		// Expand lists the terminal resistances in part order.
-		if tr < len(trs) && trs[tr].Part == p.Name {
-			r.TerminalResistance = &trs[tr]
-			tr++
-		}
-		nt := partTerminals(p)
-		r.Terminals, slab = slab[:nt:nt], slab[nt:]
-		for t := range r.Terminals {
-			node := p.Nodes[min(t, 2)] // a missing mosfet body is on the source
-			if t < len(p.Nodes) {
-				node = p.Nodes[t]
-			}
-			r.Terminals[t].Terminal, r.Terminals[t].Node = terms[t], node
-		}
-		if d != nil {
-			for t := range r.Terminals {
-				r.Terminals[t].Current = d.cur[t]
-			}
-			r.Current = d.cur[0]
-			r.Device = dr.next(d)
-		} else {
-			i := s.partCurrent(p, idx, x)
-			r.Current = i
-			r.Terminals[0].Current = i
-			r.Terminals[1].Current = -i
-		}
-		for t, tc := range r.Terminals {
-			// The unknown of the terminal's own node: mna may have put a
-			// sense node in its place, at the same voltage.
-			i := idx[min(t, len(idx)-1)]
-			if i < 0 || l.Unknowns[i].Name != tc.Node {
-				i, _ = l.Node(tc.Node)
-			}
-			r.Power += volt(x, i) * tc.Current
-			if i >= 0 {
-				named[i] = true
-				op.Residual[i] += tc.Current
-				op.ResidualScale[i] = maxNonNegative(op.ResidualScale[i], math.Abs(tc.Current))
-			}
-		}
-	}
-	for i := range trs {
-		if j, ok := l.Node(trs[i].Inner); ok && j >= 0 {
-			internal[j] = true
-		}
-	}
-	nodes := 0
-	for _, u := range l.Unknowns {
-		if !u.Branch {
-			nodes++
-		}
-	}
-	op.Nodes = make([]NodeVoltage, 0, nodes)
-	for i, u := range l.Unknowns {
-		if u.Branch {
-			continue
-		}
-		op.Nodes = append(op.Nodes, NodeVoltage{Name: u.Name, Voltage: x[i], Internal: internal[i] || !named[i]})
-		if helper > 0 {
-			op.Residual[i] += helper * x[i]
-			op.ResidualScale[i] = maxNonNegative(op.ResidualScale[i], math.Abs(helper*x[i]))
-		}
-	}
-	return op
-}
-
-// partCurrent is mna's PartCurrent for the linear part p with terminal
-// unknowns idx. Resistors and capacitors that control no other part (their
-// first terminal is their own node, not an mna sense node) are computed
-// here with the same formula, without PartCurrent's lookups by name.
-func (s *solver) partCurrent(p *cases.Part, idx []int, x []float64) float64 {
-	if p.Kind == cases.Resistor || p.Kind == cases.Capacitor {
-		if i := idx[0]; i < 0 || s.sys.Layout.Unknowns[i].Name == p.Nodes[0] {
-			if p.Kind == cases.Capacitor {
-				return 0
-			}
-			return mna.Voltage(x, idx[0], idx[1]) / p.Value
-		}
-	}
-	return s.sys.PartCurrent(p, x)
+	return p.Solve(opt)
 }
 
 // kindTerminals remembers cases.Terminals per kind: that function builds
@@ -393,42 +192,6 @@ func partTerminals(p *cases.Part) int {
 	return len(p.Nodes)
 }
 
-// deviceResults hands out the DeviceResults of a circuit's devices, with
-// their voltages and model copies carved from slabs.
-type deviceResults struct {
-	res      []DeviceResult
-	voltages []NamedVoltage
-	diodes   []devices.Diode
-	bjts     []devices.BJT
-	mosfets  []devices.MOSFET
-}
-
-// newDeviceResults sizes the slabs for devs, whose voltages number nv.
-func newDeviceResults(devs []*device, nv int) *deviceResults {
-	var nd, nb, nm int
-	for _, d := range devs {
-		switch d.kind {
-		case cases.Diode:
-			nd++
-		case cases.BJT:
-			nb++
-		default:
-			nm++
-		}
-	}
-	r := &deviceResults{res: make([]DeviceResult, len(devs)), voltages: make([]NamedVoltage, nv)}
-	if nd > 0 {
-		r.diodes = make([]devices.Diode, nd)
-	}
-	if nb > 0 {
-		r.bjts = make([]devices.BJT, nb)
-	}
-	if nm > 0 {
-		r.mosfets = make([]devices.MOSFET, nm)
-	}
-	return r
-}
-
 // voltageCount returns the number of named voltages the device reports.
 func (d *device) voltageCount() int {
 	switch d.kind {
@@ -437,43 +200,6 @@ func (d *device) voltageCount() int {
 	default:
 		return 3
 	}
-}
-
-// next describes the evaluated device d.
-func (dr *deviceResults) next(d *device) *DeviceResult {
-	r := &dr.res[0]
-	dr.res = dr.res[1:]
-	nv := d.voltageCount()
-	v := dr.voltages[:nv:nv]
-	dr.voltages = dr.voltages[nv:]
-	switch d.kind {
-	case cases.Diode:
-		dd := &dr.diodes[0]
-		dr.diodes = dr.diodes[1:]
-		*dd = *d.diode
-		r.Diode, r.DiodeCurrent, r.DiodeConductance = dd, d.di, d.dg
-		r.Region = dd.Region(d.v[0])
-		v[0] = NamedVoltage{"ak", d.v[0]}
-		r.MaxPower = dd.MaxPower
-	case cases.BJT:
-		q := &dr.bjts[0]
-		dr.bjts = dr.bjts[1:]
-		*q = *d.bjt
-		r.BJT, r.BJTState = q, d.bs
-		r.Region = q.Region(d.v[0], d.v[1])
-		v[0], v[1], v[2] = NamedVoltage{"be", d.v[0]}, NamedVoltage{"bc", d.v[1]}, NamedVoltage{"ce", d.v[0] - d.v[1]}
-		r.MaxPower = q.MaxPower
-	default:
-		m := &dr.mosfets[0]
-		dr.mosfets = dr.mosfets[1:]
-		*m = *d.mos
-		r.MOSFET, r.MOSState = m, d.ms
-		r.Region = d.ms.Region
-		v[0], v[1], v[2] = NamedVoltage{"gs", d.v[0]}, NamedVoltage{"ds", d.v[1]}, NamedVoltage{"bs", d.v[2]}
-		r.MaxPower = m.MaxPower
-	}
-	r.Voltages = v
-	return r
 }
 
 // Node returns the voltage of a node by name (0 for ground); ok is false

@@ -87,11 +87,11 @@ type element struct {
 // devices names the devices the parts stand for, for labels.
 func elements(c *cases.Circuit, sys *mna.System, devices []string) ([]element, error) {
 	var out []element
-	for _, p := range c.Parts {
+	for k, p := range c.Parts {
 		if !hasValue(p.Kind) {
 			continue
 		}
-		t := sys.Terminals[p.Name]
+		t := sys.Terminals[k]
 		e := element{Element: Element{Part: p.Name, Kind: p.Kind, Value: p.Value}, xhat: p.Value, a: -1, b: -1, k: -1}
 		e.Device, e.Param = deviceOf(p.Name, devices)
 		if len(t) >= 2 {

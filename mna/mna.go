@@ -122,11 +122,13 @@ func (l *Layout) AddBranch(part string) int {
 // System is the linear part of a circuit's equations.
 type System struct {
 	Layout *Layout
-	// Terminals maps a part name to the unknown index of each of its
-	// terminals, in cases.Terminals order (−1 for ground). A part whose
-	// current controls another is moved behind a zero-volt sense branch,
-	// so its first terminal here is an internal node.
-	Terminals map[string][]int
+	// Terminals[k] holds the unknown index of each terminal of the
+	// circuit's part k (c.Parts order), in cases.Terminals order (−1 for
+	// ground). A part whose current controls another is moved behind a
+	// zero-volt sense branch, so its first terminal here is an internal
+	// node. (A slice by position, not a map by name: Build is on the
+	// path of every operating point, and a map was a good part of it.)
+	Terminals [][]int
 	G, C      Triplets     // coefficients of the linear parts
 	DC        []float64    // b for the DC values of the independent sources
 	AC        []complex128 // b for the AC values (magnitude·exp(j·phase))
@@ -181,15 +183,14 @@ func Build(c *cases.Circuit) (*System, error) {
 		}
 		l.Unknowns = append(l.Unknowns, Unknown{Name: n})
 	}
-	s := &System{Layout: l, Terminals: make(map[string][]int, len(c.Parts))}
+	s := &System{Layout: l, Terminals: make([][]int, len(c.Parts))}
 	nt := 0
 	for _, p := range c.Parts {
 		nt += len(p.Nodes)
 	}
 	slab := make([]int, nt)
-	slabAll := slab // for stamping, below
 	// Terminal indices, with sense nodes for controlling parts.
-	for _, p := range c.Parts {
+	for k, p := range c.Parts {
 		idx := slab[:len(p.Nodes):len(p.Nodes)]
 		slab = slab[len(p.Nodes):]
 		for i, n := range p.Nodes {
@@ -206,7 +207,7 @@ func Build(c *cases.Circuit) (*System, error) {
 			}
 			idx[0] = l.AddNode(name)
 		}
-		s.Terminals[p.Name] = idx
+		s.Terminals[k] = idx
 	}
 	for _, p := range c.Parts {
 		if hasBranch(p.Kind) || controls[p.Name] {
@@ -240,12 +241,8 @@ func Build(c *cases.Circuit) (*System, error) {
 	s.C = make(Triplets, 0, nc)
 	s.DC = make([]float64, n)
 	s.AC = make([]complex128, n)
-	for _, p := range c.Parts {
-		// The terminal indices, in the order they were carved above
-		// (cheaper than looking each part up in s.Terminals).
-		t := slabAll[:len(p.Nodes):len(p.Nodes)]
-		slabAll = slabAll[len(p.Nodes):]
-		if err := s.stamp(p, t, controls[p.Name]); err != nil {
+	for k, p := range c.Parts {
+		if err := s.stamp(p, s.Terminals[k], controls[p.Name]); err != nil {
 			return nil, err
 		}
 	}
@@ -388,14 +385,15 @@ func at(x []float64, i int) float64 {
 	return x[i]
 }
 
-// PartCurrent returns the DC current into the first terminal of a linear
-// part, from a DC solution x (capacitors carry none). It returns NaN for a
-// device, whose current the DC solver knows.
-func (s *System) PartCurrent(p *cases.Part, x []float64) float64 {
+// PartCurrent returns the DC current into the first terminal of the
+// linear part p, the circuit's part number k, from a DC solution x
+// (capacitors carry none). It returns NaN for a device, whose current the
+// DC solver knows.
+func (s *System) PartCurrent(k int, p *cases.Part, x []float64) float64 {
 	if k, ok := s.Layout.Branch(p.Name); ok {
 		return x[k]
 	}
-	t := s.Terminals[p.Name]
+	t := s.Terminals[k]
 	switch p.Kind {
 	case cases.Resistor:
 		return Voltage(x, t[0], t[1]) / p.Value

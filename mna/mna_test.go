@@ -125,9 +125,9 @@ func TestBuildDC(t *testing.T) {
 			if got := x[i]; math.Abs(got-tt.want) > 1e-12 {
 				t.Errorf("V(%s) = %g, want %g", tt.node, got, tt.want)
 			}
-			for _, p := range tt.parts {
+			for k, p := range tt.parts {
 				if p.Name == tt.part {
-					if got := s.PartCurrent(p, x); math.Abs(got-tt.iwant) > 1e-15 {
+					if got := s.PartCurrent(k, p, x); math.Abs(got-tt.iwant) > 1e-15 {
 						t.Errorf("I(%s) = %g, want %g", p.Name, got, tt.iwant)
 					}
 				}
