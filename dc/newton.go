@@ -26,25 +26,19 @@ type solver struct {
 	n    int
 	opts cases.SolverOptions
 
-	branch []bool // unknown is a branch current
-	jac    *sparse.Matrix
-	lin    []float64 // G's values by slot
-	diag   []int     // slot of (i, i) of each node unknown, −1 for branches
-	rowSum []float64 // Σ_j over node columns of G_ij, for the residual scale
-	// G by rows, nonzeros only, for the residual: row i has columns
-	// gCol[gStart[i]:gStart[i+1]] with values gVal; gBranch tells which
-	// columns are branch currents.
-	gStart, gCol []int
-	gVal         []float64
-	gBranch      []bool
-	lu           sparse.LU
-	devs         []*device
-	b            []float64 // DC right-hand side
-	x, xNew      []float64
-	x0           []float64 // start point of the methods (zero unless a guess is given)
-	rhs          []float64
-	f, scale     []float64 // KCL residual and its scale per row
-	dx           []float64 // last update
+	branch   []bool // unknown is a branch current
+	jac      *sparse.Matrix
+	lin      []float64 // G's values by slot
+	diag     []int     // slot of (i, i) of each node unknown, −1 for branches
+	rowSum   []float64 // Σ_j over node columns of G_ij, for the residual scale
+	lu       sparse.LU
+	devs     []*device
+	b        []float64 // DC right-hand side
+	x, xNew  []float64
+	x0       []float64 // start point of the methods (zero unless a guess is given)
+	rhs      []float64
+	f, scale []float64 // KCL residual and its scale per row
+	dx       []float64 // last update
 
 	// State of the last Newton run, for diagnosis.
 	last runReport
@@ -79,7 +73,7 @@ func newSolver(c *cases.Circuit, sys *mna.System, devs []*device) (*solver, erro
 		s.branch[i] = u.Branch
 	}
 	pat := sparse.NewPatternSize(n, len(sys.G)+9*len(devs)+n)
-	ints := make([]int, len(sys.G)+2*n+1)
+	ints := make([]int, len(sys.G)+n)
 	linSlot := ints[:len(sys.G)]
 	for k, e := range sys.G {
 		linSlot[k] = pat.Slot(e.Row, e.Col)
@@ -99,7 +93,7 @@ func newSolver(c *cases.Circuit, sys *mna.System, devs []*device) (*solver, erro
 	if rows, cols := pat.StructuralDefect(); len(rows)+len(cols) > 0 {
 		return nil, s.structuralError(rows, cols)
 	}
-	s.diag = ints[len(sys.G) : len(sys.G)+n]
+	s.diag = ints[len(sys.G):]
 	for i := range s.diag {
 		s.diag[i] = -1
 		if !s.branch[i] {
@@ -109,7 +103,7 @@ func newSolver(c *cases.Circuit, sys *mna.System, devs []*device) (*solver, erro
 	s.jac = pat.Matrix()
 	nnz := s.jac.Len()
 	// The float vectors of the solver, in one allocation.
-	fl := make([]float64, 2*nnz+9*n)
+	fl := make([]float64, nnz+9*n)
 	vec := func(m int) []float64 {
 		v := fl[:m:m]
 		fl = fl[m:]
@@ -120,25 +114,12 @@ func newSolver(c *cases.Circuit, sys *mna.System, devs []*device) (*solver, erro
 		s.lin[linSlot[k]] += e.Value
 	}
 	s.rowSum = vec(n)
-	s.gStart = ints[len(sys.G)+n:]
-	s.gCol = make([]int, 0, nnz)
-	s.gVal = vec(nnz)[:0]
-	s.gBranch = make([]bool, 0, nnz)
 	for i := 0; i < n; i++ {
 		for _, k := range s.jac.RowSlots(i) {
-			v := s.lin[k]
-			if v == 0 {
-				continue
+			if _, j := s.jac.Position(int(k)); !s.branch[j] && s.lin[k] != 0 {
+				s.rowSum[i] += s.lin[k]
 			}
-			_, j := s.jac.Position(int(k))
-			if !s.branch[j] {
-				s.rowSum[i] += v
-			}
-			s.gCol = append(s.gCol, j)
-			s.gVal = append(s.gVal, v)
-			s.gBranch = append(s.gBranch, s.branch[j])
 		}
-		s.gStart[i+1] = len(s.gCol)
 	}
 	s.b = vec(n)
 	copy(s.b, sys.DC)
@@ -211,15 +192,18 @@ func (s *solver) residual(gh, lam float64) {
 		xi := x[i]
 		var sum float64
 		sc := math.Abs(s.rowSum[i] * xi)
-		g0, g1 := s.gStart[i], s.gStart[i+1]
-		gCol, gBranch := s.gCol[g0:g1], s.gBranch[g0:g1]
-		for p, g := range s.gVal[g0:g1] {
-			xj := x[gCol[p]]
+		for _, k := range s.jac.RowSlots(i) {
+			g := s.lin[k]
+			if g == 0 {
+				continue // a slot only a device or the helper fills
+			}
+			_, j := s.jac.Position(int(k))
+			xj := x[j]
 			sum += g * xj
 			// The diagonal's term g·(xi − xi) is ±0 and never raises
 			// the scale, which is ≥ 0 (or NaN).
 			d := xj - xi
-			if gBranch[p] {
+			if s.branch[j] {
 				d = xj
 			}
 			if term := math.Abs(g * d); term > sc {
