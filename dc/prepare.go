@@ -76,7 +76,9 @@ func (p *Prepared) Solve(opt Options) (*OperatingPoint, error) {
 	s.lu = p.lu
 	x0 := s.x0
 	clear(x0)
-	if g := opt.Guess; g != nil && g.System != nil {
+	if g := opt.Guess; g != nil && g.System != nil && g.System.Layout == s.sys.Layout && len(g.X) == len(x0) {
+		copy(x0, g.X) // an answer of this circuit (a sweep's last point)
+	} else if g != nil && g.System != nil {
 		for i, u := range s.sys.Layout.Unknowns {
 			var j int
 			var ok bool
@@ -236,7 +238,7 @@ func terminalNode(p *cases.Part, u int) string {
 type currentRule struct {
 	kind   uint8   // one of the rule constants below
 	a, b   int32   // unknowns: terminals (resistor, vccs controls) or branch (a)
-	factor float64 // resistance, gain, or the source current
+	factor float64 // resistance or gain
 }
 
 const (
@@ -244,7 +246,7 @@ const (
 	ruleResistor           // (V(a) − V(b))/factor
 	ruleConductance        // factor·(V(a) − V(b))
 	ruleBranch             // x[a]
-	ruleFixed              // factor
+	ruleFixed              // the part's DC value (a current source)
 	ruleScaled             // factor·x[a] (cccs)
 	ruleOther              // anything else: mna.PartCurrent
 )
@@ -263,7 +265,7 @@ func currentRuleOf(sys *mna.System, k int, p *cases.Part) currentRule {
 	case cases.Capacitor:
 		return currentRule{kind: ruleZero}
 	case cases.CurrentSource:
-		return currentRule{kind: ruleFixed, factor: p.DC}
+		return currentRule{kind: ruleFixed}
 	case cases.VCCS:
 		return currentRule{kind: ruleConductance, a: int32(t[2]), b: int32(t[3]), factor: p.Value}
 	case cases.CCCS:
@@ -285,8 +287,6 @@ func (r currentRule) current(x []float64) float64 {
 		return r.factor * mna.Voltage(x, int(r.a), int(r.b))
 	case ruleBranch:
 		return x[r.a]
-	case ruleFixed:
-		return r.factor
 	case ruleScaled:
 		return r.factor * x[r.a]
 	}
@@ -341,9 +341,14 @@ func (p *Prepared) result(attempts []Attempt, iterations int, m Method, helper f
 			volts = volts[nv:]
 			r.Device = dr
 		} else {
-			i := t.current[pi].current(x)
-			if t.current[pi].kind == ruleOther {
+			var i float64
+			switch rule := t.current[pi]; rule.kind {
+			case ruleFixed:
+				i = part.DC // from the part: a sweep changes it
+			case ruleOther:
 				i = s.sys.PartCurrent(pi, part, x)
+			default:
+				i = rule.current(x)
 			}
 			r.Current = i
 			tc[0].Current = i

@@ -246,7 +246,29 @@ func Build(c *cases.Circuit) (*System, error) {
 			return nil, err
 		}
 	}
+	s.DCSources(c, s.DC)
 	return s, nil
+}
+
+// DCSources writes into b (length Layout.Size()) the right-hand side of
+// the DC values of c's independent sources: a voltage source's value in
+// its branch row, a current source's current out of its from node and
+// into its to node, zero elsewhere. c is the circuit the system was built
+// from, or a copy of it with other source values (a DC sweep); the sums
+// are taken in part order, as Build takes them, so for c itself b equals
+// DC bit for bit.
+func (s *System) DCSources(c *cases.Circuit, b []float64) {
+	clear(b)
+	for k, p := range c.Parts {
+		switch p.Kind {
+		case cases.VoltageSource:
+			kb, _ := s.Layout.Branch(p.Name)
+			b[kb] += p.DC
+		case cases.CurrentSource:
+			t := s.Terminals[k]
+			Current(b, t[0], t[1], p.DC)
+		}
+	}
 }
 
 // hasBranch reports whether a part kind carries its own branch current.
@@ -279,10 +301,8 @@ func (s *System) stamp(p *cases.Part, t []int, control bool) error {
 	case cases.VoltageSource:
 		k, _ := s.Layout.Branch(p.Name)
 		VoltageBranch(&s.G, t[0], t[1], k)
-		s.DC[k] += p.DC
 		s.AC[k] += phasor(p.AC, p.ACPhase)
 	case cases.CurrentSource:
-		Current(s.DC, t[0], t[1], p.DC)
 		ac := phasor(p.AC, p.ACPhase)
 		if t[0] >= 0 {
 			s.AC[t[0]] -= ac
