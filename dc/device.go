@@ -58,9 +58,9 @@ type modelKey struct {
 // built holds the devices already built for other parts, by modelKey: a
 // device whose key is there shares their parameters instead of reading
 // the model's keys again.
-func newDevice(d *device, c *cases.Circuit, p *cases.Part, temperature float64, built map[modelKey]*device) error {
-	m, ok := c.Models[p.Model]
-	if !ok || m == nil {
+func newDevice(d *device, c *cases.Circuit, p *cases.Part, temperature float64, built *deviceCache) error {
+	m := built.model(c, p.Model)
+	if m == nil {
 		return fmt.Errorf("dc: part %s: model %q is not defined", p.Name, p.Model)
 	}
 	*d = device{part: p, kind: p.Kind}
@@ -76,12 +76,12 @@ func newDevice(d *device, c *cases.Circuit, p *cases.Part, temperature float64, 
 		}
 		d.nt = 2
 		d.row = [maxTerminals]bool{true, true}
-		if b, ok := built[key]; ok {
+		if b := built.get(key); b != nil {
 			d.diode = b.diode
 		} else {
 			dd := devices.NewDiode(m.Params, area, temperature)
 			d.diode = &dd
-			built[key] = d
+			built.put(key, d)
 		}
 	case cases.BJT:
 		if m.Device != cases.DeviceNPN && m.Device != cases.DevicePNP {
@@ -89,12 +89,12 @@ func newDevice(d *device, c *cases.Circuit, p *cases.Part, temperature float64, 
 		}
 		d.nt = 3
 		d.row = [maxTerminals]bool{true, true, true}
-		if b, ok := built[key]; ok {
+		if b := built.get(key); b != nil {
 			d.bjt = b.bjt
 		} else {
 			q := devices.NewBJT(m.Device, m.Params, area, temperature)
 			d.bjt = &q
-			built[key] = d
+			built.put(key, d)
 		}
 	case cases.MOSFET:
 		if m.Device != cases.DeviceNMOS && m.Device != cases.DevicePMOS {
@@ -107,17 +107,64 @@ func newDevice(d *device, c *cases.Circuit, p *cases.Part, temperature float64, 
 		d.nt = 4
 		d.row = [maxTerminals]bool{true, false, true, false} // drain, source
 		key = modelKey{model: m, kind: p.Kind, width: p.Width, length: p.Length, factor: mult}
-		if b, ok := built[key]; ok {
+		if b := built.get(key); b != nil {
 			d.mos = b.mos
 		} else {
 			mf := devices.NewMOSFET(m.Device, m.Params, p.Width, p.Length, mult, temperature)
 			d.mos = &mf
-			built[key] = d
+			built.put(key, d)
 		}
 	default:
 		return fmt.Errorf("dc: part %s: %s is not a device", p.Name, p.Kind)
 	}
 	return nil
+}
+
+// deviceCache remembers the devices built for each modelKey, and the
+// model last looked up. Parts in a row usually share their model and
+// scaling, so the last entry is tried before the map, which is made only
+// when a second key appears.
+type deviceCache struct {
+	lastKey   modelKey
+	lastDev   *device
+	byKey     map[modelKey]*device
+	lastName  string
+	lastModel *cases.Model
+}
+
+// model returns c's model of the given name, nil when there is none.
+func (b *deviceCache) model(c *cases.Circuit, name string) *cases.Model {
+	if b.lastModel != nil && name == b.lastName {
+		return b.lastModel
+	}
+	m := c.Models[name]
+	if m != nil {
+		b.lastName, b.lastModel = name, m
+	}
+	return m
+}
+
+// get returns the device built for key, or nil.
+func (b *deviceCache) get(key modelKey) *device {
+	if b.lastDev != nil && key == b.lastKey {
+		return b.lastDev
+	}
+	if d := b.byKey[key]; d != nil {
+		b.lastKey, b.lastDev = key, d
+		return d
+	}
+	return nil
+}
+
+// put records d as the device built for key.
+func (b *deviceCache) put(key modelKey, d *device) {
+	if b.lastDev != nil {
+		if b.byKey == nil {
+			b.byKey = map[modelKey]*device{b.lastKey: b.lastDev}
+		}
+		b.byKey[key] = d
+	}
+	b.lastKey, b.lastDev = key, d
 }
 
 // buildDevices builds the devices of c's parts, in part order, in one
@@ -135,14 +182,14 @@ func buildDevices(c *cases.Circuit) ([]*device, error) {
 	}
 	slab := make([]device, n)
 	devs := make([]*device, n)
-	built := make(map[modelKey]*device, 4)
+	var built deviceCache
 	k := 0
 	for _, p := range c.Parts {
 		if !cases.IsDevice(p.Kind) {
 			continue
 		}
 		d := &slab[k]
-		if err := newDevice(d, c, p, t, built); err != nil {
+		if err := newDevice(d, c, p, t, &built); err != nil {
 			return nil, err
 		}
 		devs[k] = d

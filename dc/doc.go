@@ -50,6 +50,20 @@
 // method fails, the *NoConvergenceError names what was tried and which
 // nodes and devices did not settle.
 //
+// # Set-up and sweeps
+//
+// Solve is Prepare followed by Prepared.Solve. Prepare does everything
+// that does not depend on the solution: devices, expansion, equations,
+// the Newton matrix's pattern, its pivot order (analysed at the start
+// point from zero) and the layout of the result tables. A Prepared can be
+// solved again and again; each Solve starts from the same prepared
+// state, so its numbers never depend on what was solved before.
+// SweepSource uses one to solve a circuit along the DC values of one
+// independent source, each point from the last one's answer: a transfer
+// characteristic or an I-V curve, and on a circuit with several
+// solutions the branch it is on (a sweep up and a sweep down through a
+// hysteresis band differ, as the circuit does).
+//
 // # Results
 //
 // Every part, terminal-resistance resistors included, reports its current
