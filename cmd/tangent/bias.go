@@ -16,12 +16,19 @@ func init() {
 }
 
 func runBias(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("bias", "tangent bias [FILE] [--json] [--set PATH=VALUE]",
+	fs := newFlags("bias", "tangent bias [FILE] [--json] [--set PATH=VALUE] [--sweep PART=START:STOP:POINTS [--log] [--csv FILE]]",
 		"Find the DC operating point (bias point) of a case (with no FILE, the embedded default\n"+
 			"example) and report node voltages, each part's current and power, each device's\n"+
 			"region, terminal currents and voltages, the power balance and warnings.\n"+
+			"With --sweep, solve it at each of POINTS DC values of one independent source, each\n"+
+			"point starting from the one before, and report node voltages, device currents and\n"+
+			"where each device changes region, e.g. --sweep VCC=0:12V:25, --sweep IB=1uA:10mA:31 --log.\n"+
 			"Exit status 0 when solved, 1 when no operating point is found, 2 for bad input.", stderr)
 	asJSON := fs.Bool("json", false, "print the result as JSON on stdout (SI units)")
+	sweep := fs.String("sweep", "", "sweep the DC value of the independent source PART from START to STOP inclusive,\n"+
+		"`PART=START:STOP:POINTS`, e.g. VCC=0:12V:25 (V for a voltage source, A for a current source)")
+	logScale := fs.Bool("log", false, "with --sweep: space the points logarithmically (START and STOP nonzero, same sign)")
+	csvFile := fs.String("csv", "", "with --sweep: write the swept values, node voltages, device currents and regions to `FILE.csv`")
 	var cf caseFlags
 	cf.register(fs)
 	rest, code, ok := parseFlags(fs, args, stderr)
@@ -32,9 +39,25 @@ func runBias(args []string, stdout, stderr io.Writer) int {
 	if !ok {
 		return code
 	}
+	var sp *sweepSpec
+	switch {
+	case *sweep != "":
+		s, err := parseSweepFlag(*sweep, *logScale)
+		if err != nil {
+			fmt.Fprintf(stderr, "tangent bias: %v\n", err)
+			return exitUsage
+		}
+		sp = s
+	case *logScale || *csvFile != "":
+		fmt.Fprintln(stderr, "tangent bias: --log and --csv go with --sweep PART=START:STOP:POINTS")
+		return exitUsage
+	}
 	c, code := cf.load("bias", file, stderr)
 	if c == nil {
 		return code
+	}
+	if sp != nil {
+		return runSweep(file, c, sp, *asJSON, *csvFile, stdout, stderr)
 	}
 	op, err := dc.Solve(c)
 	if err != nil {
