@@ -25,8 +25,8 @@ type Sweep struct {
 // the one before (the first from zero, or from opt.Guess), which is how
 // a sweep follows one branch of the solutions through a region where a
 // circuit has several; where Newton fails from there the fallbacks of
-// Solve take over. The circuit is set up once (see Prepare). An error at
-// a point names the value; the points before it are not returned.
+// Solve take over. The circuit is set up once (see Prepare). A point that
+// fails gives a *SweepError; the points before it are not returned.
 func SweepSource(c *cases.Circuit, source string, values []float64, opt Options) (*Sweep, error) {
 	k := -1
 	for i, p := range c.Parts {
@@ -63,13 +63,28 @@ func SweepSource(c *cases.Circuit, source string, values []float64, opt Options)
 		copy(p.s.b, sys.DC)
 		op, err := p.Solve(opt)
 		if err != nil {
-			return nil, fmt.Errorf("dc: sweep of %s at %s: %w", source, sweepValue(kind, v), err)
+			return nil, &SweepError{Source: source, Kind: kind, Index: len(sw.Points), Value: v, Err: err}
 		}
 		sw.Points = append(sw.Points, op)
 		opt.Guess = op
 	}
 	return sw, nil
 }
+
+// SweepError reports the point at which a sweep failed.
+type SweepError struct {
+	Source string
+	Kind   cases.Kind
+	Index  int     // the point, counted from 0
+	Value  float64 // its value, V or A
+	Err    error   // why it failed: a *NoConvergenceError, say
+}
+
+func (e *SweepError) Error() string {
+	return fmt.Sprintf("dc: sweep of %s at %s: %v", e.Source, sweepValue(e.Kind, e.Value), e.Err)
+}
+
+func (e *SweepError) Unwrap() error { return e.Err }
 
 // sweepPoint returns copies of the expanded circuit ex and its system
 // with part k's DC value set to v: a new parts list sharing every part

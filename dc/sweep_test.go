@@ -1,6 +1,7 @@
 package dc
 
 import (
+	"errors"
 	"math"
 	"path/filepath"
 	"strings"
@@ -171,6 +172,24 @@ func TestSweepFollowsHysteresis(t *testing.T) {
 		if !near(a, b, 1e-8, 1e-9) {
 			t.Errorf("V(out) at %g V: %g rising, %g falling", v, a, b)
 		}
+	}
+}
+
+// A point that does not converge is named by a *SweepError that still
+// wraps the solver's own error.
+func TestSweepErrorAtPoint(t *testing.T) {
+	c, err := cases.Load(filepath.Join("..", "testdata", "dc", "starved_solver.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = SweepSource(c, "VIN", []float64{0, 1}, Options{})
+	var se *SweepError
+	var nc *NoConvergenceError
+	if !errors.As(err, &se) || !errors.As(err, &nc) {
+		t.Fatalf("err = %v, want a *SweepError wrapping a *NoConvergenceError", err)
+	}
+	if se.Index != 0 || se.Value != 0 || se.Source != "VIN" || !strings.Contains(err.Error(), "sweep of VIN at 0 V") {
+		t.Errorf("SweepError %+v: %v", se, err)
 	}
 }
 

@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/csv"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -133,6 +134,10 @@ func runSweep(file string, c *cases.Circuit, sp *sweepSpec, asJSON bool, csvFile
 		if asJSON {
 			o := biasFailureJSON(caseName(file), err)
 			o.set("sweep", head)
+			var se *dc.SweepError
+			if errors.As(err, &se) {
+				o.set("failed_at", se.Value)
+			}
 			writeJSON(stdout, o)
 		}
 		return analysisExit(err)

@@ -342,12 +342,14 @@ func TestBiasSweepBadFlags(t *testing.T) {
 		t.Fatalf("exit %d, stderr %q; want 1", code, errOut)
 	}
 	var doc struct {
-		Converged bool `json:"converged"`
+		Converged bool     `json:"converged"`
+		FailedAt  *float64 `json:"failed_at"`
 		Sweep     struct {
 			Values []float64 `json:"values"`
 		} `json:"sweep"`
 	}
-	if err := json.Unmarshal([]byte(out), &doc); err != nil || doc.Converged || len(doc.Sweep.Values) != 4 {
+	if err := json.Unmarshal([]byte(out), &doc); err != nil || doc.Converged || len(doc.Sweep.Values) != 4 ||
+		doc.FailedAt == nil || *doc.FailedAt != 0 {
 		t.Errorf("failure JSON (%v):\n%s", err, out)
 	}
 }
