@@ -52,7 +52,6 @@ type LU struct {
 
 	// Index arrays are int32, like Matrix's.
 	rowPerm, colPerm []int32 // step → original row, column
-	colStep          []int32 // original column → step
 
 	// Rows of P·A·Q: for step k, aSlot[aStart[k]:aStart[k+1]] are the
 	// slots of A's row rowPerm[k] and aCol the steps of their columns.
@@ -81,9 +80,67 @@ type LU struct {
 	rowChanged []int32 // 1: recomputed
 	aValid     bool
 
+	// The two slabs the arrays above are carved from, kept for the next
+	// analysis: a re-analysis whose factors fit in them (the same
+	// pattern, fill no larger) allocates nothing below about 150
+	// unknowns (its temporaries are on the stack).
+	ints   []int32
+	floats []float64
+
 	// Analyses counts the pivot-order analyses done (the first one and
 	// every re-analysis forced by a tiny pivot).
 	Analyses int
+}
+
+// Restart makes f start again from the pivot order of from, an LU that
+// has factored a matrix: f's next Factor of a matrix with from's pattern
+// refactors in from's order, recomputing every row, whatever f held
+// before. f shares from's index structure, which is never modified once
+// laid out (an analysis of f makes its own), and keeps value buffers of
+// its own (reused from f's last restart when they fit), so from's
+// factors are untouched by f and restarting allocates nothing after the
+// first time. A caller that solves the same system again and again keeps
+// one analysed LU and restarts a working one from it: each run then
+// starts from the same state, and its numbers do not depend on earlier
+// runs. from must not be factored again while f shares its structure.
+func (f *LU) Restart(from *LU) {
+	floats, changed := f.floats, f.rowChanged
+	if shares(floats, from.floats) {
+		floats = nil
+	}
+	if shares32(changed, from.rowChanged) {
+		changed = nil
+	}
+	*f = *from
+	f.ints = nil // from's: an analysis of f must lay out its own
+	f.aValid = false
+	if !f.done {
+		f.floats, f.rowChanged = nil, nil
+		return
+	}
+	nf := len(f.lVal) + len(f.uVal) + 2*f.n + len(f.aPrev)
+	if cap(floats) < nf {
+		floats = make([]float64, nf)
+	}
+	if cap(changed) < f.n {
+		changed = make([]int32, f.n)
+	}
+	// The value arrays in layout's order; their contents need no copy,
+	// since the next refactor recomputes every row.
+	fv := arena[float64](floats[:nf])
+	f.floats = floats
+	f.lVal, f.uVal, f.uDiag = fv.take(len(f.lVal)), fv.take(len(f.uVal)), fv.take(f.n)
+	f.w, f.aPrev = fv.take(f.n), fv.take(len(f.aPrev))
+	f.rowChanged = changed[:f.n]
+}
+
+// shares reports whether a and b start at the same element.
+func shares(a, b []float64) bool {
+	return cap(a) > 0 && cap(b) > 0 && &a[:1][0] == &b[:1][0]
+}
+
+func shares32(a, b []int32) bool {
+	return cap(a) > 0 && cap(b) > 0 && &a[:1][0] == &b[:1][0]
 }
 
 // Factor computes the factorization of m. The first call, a call with a
@@ -110,6 +167,18 @@ func sameMatrixPattern(a, b *Matrix) bool {
 		(len(a.rows) == 0 || &a.rows[0] == &b.rows[0])
 }
 
+// span returns the bounds [start[k], start[k+1]) of list k of a
+// compressed structure whose items have length n. The check against n
+// lets the compiler drop the bounds checks of the loops over the list;
+// it never fails for the structures built here.
+func span(start []int32, k, n int) (int, int) {
+	p0, p1 := int(uint32(start[k])), int(uint32(start[k+1]))
+	if p1 > n {
+		panic("sparse: corrupt structure")
+	}
+	return p0, p1
+}
+
 // refactor redoes the arithmetic of the stored pivot order (row-by-row
 // Doolittle elimination on a dense work row). It reports false when a
 // pivot fails the refactor threshold. The work row starts as A's row: its
@@ -121,28 +190,35 @@ func sameMatrixPattern(a, b *Matrix) bool {
 // exactly the factors it had: it is skipped. In a Newton iteration these
 // are the rows of the linear parts that no device reaches.
 func (f *LU) refactor(m *Matrix) bool {
-	w := f.w
+	n := f.n
+	// Local slices of checked lengths let the compiler keep them in
+	// registers and drop most bounds checks.
+	w := f.w[:n]
 	vals := m.Values
-	lStart, lCol, lVal := f.lStart, f.lCol, f.lVal
-	uStart, uCol, uVal, uDiag := f.uStart, f.uCol, f.uVal, f.uDiag
-	aPrev, changed := f.aPrev, f.rowChanged
+	aStart, zStart := f.aStart[:n+1], f.zStart[:n+1]
+	lStart, uStart := f.lStart[:n+1], f.uStart[:n+1]
+	aSlot, zCol := f.aSlot, f.zCol
+	aCol, aPrev := f.aCol[:len(aSlot)], f.aPrev[:len(aSlot)]
+	lCol, uCol := f.lCol, f.uCol
+	lVal, uVal := f.lVal[:len(lCol)], f.uVal[:len(uCol)]
+	uDiag := f.uDiag[:n]
+	changed := f.rowChanged[:n]
 	valid := f.aValid
 	f.aValid = false // until this refactor completes
-	for k := 0; k < f.n; k++ {
-		a0, a1 := f.aStart[k], f.aStart[k+1]
-		aCol, aSlot, prev := f.aCol[a0:a1], f.aSlot[a0:a1], aPrev[a0:a1]
-		l0, l1 := lStart[k], lStart[k+1]
+	for k := 0; k < n; k++ {
+		a0, a1 := span(aStart, k, len(aSlot))
+		l0, l1 := span(lStart, k, len(lCol))
 		if valid {
 			same := true
-			for p, s := range aSlot {
-				if math.Float64bits(vals[s]) != math.Float64bits(prev[p]) {
+			for p := a0; p < a1; p++ {
+				if math.Float64bits(vals[aSlot[p]]) != math.Float64bits(aPrev[p]) {
 					same = false
 					break
 				}
 			}
 			if same {
-				for _, c := range lCol[l0:l1] {
-					if changed[c] != 0 {
+				for p := l0; p < l1; p++ {
+					if changed[lCol[p]] != 0 {
 						same = false
 						break
 					}
@@ -154,34 +230,33 @@ func (f *LU) refactor(m *Matrix) bool {
 			}
 			changed[k] = 1
 		}
-		for _, j := range f.zCol[f.zStart[k]:f.zStart[k+1]] {
-			w[j] = 0
+		z0, z1 := span(zStart, k, len(zCol))
+		for p := z0; p < z1; p++ {
+			w[zCol[p]] = 0
 		}
-		for p, s := range aSlot {
-			v := vals[s]
-			prev[p] = v
+		for p := a0; p < a1; p++ {
+			v := vals[aSlot[p]]
+			aPrev[p] = v
 			w[aCol[p]] = 0 + v
 		}
-		lv := lVal[l0:l1]
-		for p, c := range lCol[l0:l1] {
+		for p := l0; p < l1; p++ {
+			c := int(lCol[p])
 			l := w[c] / uDiag[c]
-			lv[p] = l
+			lVal[p] = l
 			if l == 0 {
 				continue
 			}
-			q0, q1 := uStart[c], uStart[c+1]
-			uv := uVal[q0:q1]
-			for q, j := range uCol[q0:q1] {
-				w[j] -= l * uv[q]
+			q0, q1 := span(uStart, c, len(uCol))
+			for q := q0; q < q1; q++ {
+				w[uCol[q]] -= l * uVal[q]
 			}
 		}
 		piv := w[k]
 		big := math.Abs(piv)
-		u0, u1 := uStart[k], uStart[k+1]
-		uv := uVal[u0:u1]
-		for p, j := range uCol[u0:u1] {
-			v := w[j]
-			uv[p] = v
+		u0, u1 := span(uStart, k, len(uCol))
+		for p := u0; p < u1; p++ {
+			v := w[uCol[p]]
+			uVal[p] = v
 			if a := math.Abs(v); a > big {
 				big = a
 			}
@@ -203,23 +278,34 @@ func (f *LU) refactor(m *Matrix) bool {
 // Solve sets x to the solution of A·x = b for the last factored A. b and x
 // may be the same slice. It allocates nothing.
 func (f *LU) Solve(x, b []float64) {
-	y := f.w
-	for k := 0; k < f.n; k++ {
-		s := b[f.rowPerm[k]]
-		for p := f.lStart[k]; p < f.lStart[k+1]; p++ {
-			s -= f.lVal[p] * y[f.lCol[p]]
+	n := f.n
+	if n == 0 {
+		return
+	}
+	y := f.w[:n]
+	rowPerm, colPerm := f.rowPerm[:n], f.colPerm[:n]
+	lStart, uStart := f.lStart[:n+1], f.uStart[:n+1]
+	lCol, uCol := f.lCol, f.uCol
+	lVal, uVal := f.lVal[:len(lCol)], f.uVal[:len(uCol)]
+	uDiag := f.uDiag[:n]
+	for k := 0; k < n; k++ {
+		s := b[rowPerm[k]]
+		p0, p1 := span(lStart, k, len(lCol))
+		for p := p0; p < p1; p++ {
+			s -= lVal[p] * y[lCol[p]]
 		}
 		y[k] = s
 	}
-	for k := f.n - 1; k >= 0; k-- {
+	for k := n - 1; k >= 0; k-- {
 		s := y[k]
-		for p := f.uStart[k]; p < f.uStart[k+1]; p++ {
-			s -= f.uVal[p] * y[f.uCol[p]]
+		p0, p1 := span(uStart, k, len(uCol))
+		for p := p0; p < p1; p++ {
+			s -= uVal[p] * y[uCol[p]]
 		}
-		y[k] = s / f.uDiag[k]
+		y[k] = s / uDiag[k]
 	}
-	for k := 0; k < f.n; k++ {
-		x[f.colPerm[k]] = y[k]
+	for k, c := range colPerm {
+		x[c] = y[k]
 	}
 }
 
@@ -238,397 +324,597 @@ func (a *arena[T]) take(n int) []T {
 	return s
 }
 
-// countList keeps the active rows (or columns) in doubly linked lists by
-// their count of active entries, so that the Markowitz search can visit
-// the sparsest first.
-type countList struct {
-	head, next, prev, count []int32
+// line is a row or a column of the active submatrix during an analysis.
+// Its items (a row's columns and values, a column's rows) are at
+// [at, at+size) of its slab, with room for room items there; next and
+// prev link it into the count list of bucket count (the lists let the
+// Markowitz search visit the sparsest lines first), and count is −1 once
+// the line has left the active submatrix. For a row, max is max_k |a_ik|
+// over its active entries. One struct per line keeps what a step touches
+// of a line together.
+type line struct {
+	at, size, room    int32
+	next, prev, count int32
+	max               float64
 }
 
-func newCountList(n int, ar *arena[int32]) countList {
-	c := countList{head: ar.take(n + 2), next: ar.take(n), prev: ar.take(n), count: ar.take(n)}
-	for i := range c.head {
-		c.head[i] = -1
+// span returns the bounds of the line's items in a slab of length n
+// (checked, as the function span).
+func (l *line) span(n int) (int, int) {
+	p0 := int(uint32(l.at))
+	p1 := p0 + int(uint32(l.size))
+	if p1 > n {
+		panic("sparse: corrupt structure")
 	}
-	return c
+	return p0, p1
+}
+
+// countList is the set of count lists of rows or of columns: head[c] is
+// the first line with count c, −1 none. A line is inserted at the head of
+// its list, so each list is in the reverse order of its insertions.
+type countList struct {
+	lines []line
+	head  []int32
 }
 
 func (c *countList) insert(i, cnt int32) {
 	if int(cnt) >= len(c.head) {
 		cnt = int32(len(c.head) - 1)
 	}
-	c.count[i] = cnt
-	c.prev[i] = -1
-	c.next[i] = c.head[cnt]
-	if c.head[cnt] >= 0 {
-		c.prev[c.head[cnt]] = i
+	l := &c.lines[i]
+	h := c.head[cnt]
+	l.count, l.prev, l.next = cnt, -1, h
+	if h >= 0 {
+		c.lines[h].prev = i
 	}
 	c.head[cnt] = i
 }
 
 func (c *countList) remove(i int32) {
-	if c.prev[i] >= 0 {
-		c.next[c.prev[i]] = c.next[i]
+	l := &c.lines[i]
+	if l.prev >= 0 {
+		c.lines[l.prev].next = l.next
 	} else {
-		c.head[c.count[i]] = c.next[i]
+		c.head[l.count] = l.next
 	}
-	if c.next[i] >= 0 {
-		c.prev[c.next[i]] = c.prev[i]
+	if l.next >= 0 {
+		c.lines[l.next].prev = l.prev
 	}
 }
 
+// set moves line i to the head of the list of count cnt (even when cnt
+// is its count already): remove and insert, written out so that the
+// slices are loaded once.
 func (c *countList) set(i, cnt int32) {
-	c.remove(i)
-	c.insert(i, cnt)
-}
-
-// lines is a set of growable int32 lists (the rows or the columns of the
-// active submatrix) in one slab: list k is at[k] … at[k]+size[k] of items,
-// with room for room[k] items there. A list that outgrows its room moves to
-// the end of the slab (appending to the slab may move the slab itself).
-type lines struct {
-	at, size, room []int32
-	items          []int32
-	vals           []float64 // parallel to items, or nil
-}
-
-// list returns the items of list k.
-func (l *lines) list(k int32) []int32 {
-	a := l.at[k]
-	return l.items[a : a+l.size[k]]
-}
-
-// values returns the values of list k.
-func (l *lines) values(k int32) []float64 {
-	a := l.at[k]
-	return l.vals[a : a+l.size[k]]
-}
-
-// full reports whether list k has no room left for another item.
-func (l *lines) full(k int32) bool { return l.size[k] == l.room[k] }
-
-// grow returns the lines with list k moved to the end of the slab, with
-// room for twice its items and rowSlack more. (It returns the lines
-// rather than updating them in place so that a slab on the stack stays
-// there.)
-func (l lines) grow(k int32) lines {
-	a, sz := l.at[k], l.size[k]
-	room := 2*sz + rowSlack
-	at := int32(len(l.items))
-	l.items = append(l.items, l.items[a:a+sz]...)
-	l.items = append(l.items, make([]int32, room-sz)...)
-	if l.vals != nil {
-		l.vals = append(l.vals, l.vals[a:a+sz]...)
-		l.vals = append(l.vals, make([]float64, room-sz)...)
+	lines, head := c.lines, c.head
+	l := &lines[i]
+	if l.prev < 0 && l.count == cnt {
+		return // at the head of that list already
 	}
-	l.at[k], l.room[k] = at, room
-	return l
-}
-
-// push appends item (and value v, if the lines have values) to list k,
-// which must not be full.
-func (l *lines) push(k, item int32, v float64) {
-	p := l.at[k] + l.size[k]
-	l.items[p] = item
-	if l.vals != nil {
-		l.vals[p] = v
+	if l.prev >= 0 {
+		lines[l.prev].next = l.next
+	} else {
+		head[l.count] = l.next
 	}
-	l.size[k]++
-}
-
-// analysis is the state of one pivot-order analysis: the active
-// submatrix by rows (columns and values) and, for the search, the rows of
-// each column (lazily pruned of rows that left the active submatrix).
-// Indices are int32 to halve the memory the analysis touches.
-type analysis struct {
-	n         int
-	rows      lines     // row i: its active columns and their values
-	rowMax    []float64 // max |a_ij| over the active row
-	cols      lines     // column j: rows that have (or had) an entry in it
-	rowActive []int32   // 1: the row is active (int32, to share the arena)
-	colActive []int32
-	rl, cl    countList
+	if l.next >= 0 {
+		lines[l.next].prev = l.prev
+	}
+	if int(cnt) >= len(head) {
+		cnt = int32(len(head) - 1)
+	}
+	h := head[cnt]
+	l.count, l.prev, l.next = cnt, -1, h
+	if h >= 0 {
+		lines[h].prev = i
+	}
+	head[cnt] = i
 }
 
 // rowSlack is the spare room given to each row and column for fill-in
 // before it must move; circuit rows rarely gain more.
 const rowSlack = 4
 
-// newAnalysis sets up the analysis of m, carving its arrays from the
-// arenas.
-func newAnalysis(m *Matrix, ar *arena[int32], fr *arena[float64]) analysis {
-	n := m.n
-	nnz := len(m.rows)
-	active := ar.take(2 * n)
-	a := analysis{
-		n: n, rowMax: fr.take(n), rowActive: active[:n:n], colActive: active[n:],
-		rl: newCountList(n, ar), cl: newCountList(n, ar),
-	}
-	a.rows = lines{at: ar.take(n), size: ar.take(n), room: ar.take(n),
-		items: ar.take(nnz + rowSlack*n), vals: fr.take(nnz + rowSlack*n)}
-	a.cols = lines{at: ar.take(n), size: ar.take(n), room: ar.take(n),
-		items: ar.take(nnz + rowSlack*n)}
-	for _, j := range m.cols {
-		a.cols.room[j]++
-	}
-	off := int32(0)
-	for j := 0; j < n; j++ {
-		a.cols.at[j] = off
-		a.cols.room[j] += rowSlack
-		off += a.cols.room[j]
-	}
-	off = 0
-	for i := 0; i < n; i++ {
-		slots := m.RowSlots(i)
-		a.rows.at[i], a.rows.size[i], a.rows.room[i] = off, int32(len(slots)), int32(len(slots)+rowSlack)
-		c := a.rows.items[off : off+int32(len(slots))]
-		v := a.rows.vals[off : off+int32(len(slots))]
-		off += int32(len(slots) + rowSlack)
-		var big float64
-		for p, s := range slots {
-			j := m.cols[s]
-			c[p] = int32(j)
-			v[p] = m.Values[s]
-			if x := math.Abs(v[p]); x > big {
-				big = x
-			}
-			a.cols.items[a.cols.at[j]+a.cols.size[j]] = int32(i)
-			a.cols.size[j]++
-		}
-		a.rowMax[i] = big
-	}
-	for i := n - 1; i >= 0; i-- { // reverse, so that each list starts with its lowest index
-		a.rowActive[i], a.colActive[i] = 1, 1
-		a.rl.insert(int32(i), a.rows.size[i])
-		a.cl.insert(int32(i), a.cols.size[i])
-	}
-	return a
+// analysis is the state of one pivot-order analysis: the active
+// submatrix by rows (columns and values) and, for the search, the rows of
+// each column (lazily pruned of rows that left the active submatrix),
+// and the factors as they are found. Indices are int32 to halve the
+// memory the analysis touches.
+type analysis struct {
+	n          int
+	row, col   []line
+	rl, cl     countList // count lists over row and col
+	rc         []int32   // the rows' items: columns …
+	rv         []float64 // … and values (same length)
+	cr         []int32   // the columns' items: rows
+	rEnd, cEnd int32     // used length of rc (and rv) and of cr
+	pos        []int32   // scatter: column → position in the row being updated, −1 none
+
+	rowPerm, colPerm []int32 // step → original row, column
+	// L's entries by step (column): lRow[lAt[k]:lAt[k+1]] are the
+	// original rows of step k's entries, lVal their values; nl entries
+	// are in use.
+	lRow, lAt []int32
+	lVal      []float64
+	nl        int
+	// U's rows by step: original columns uc[uAt[k]:uAt[k+1]], values
+	// uv, diagonal uDiag[k]; nu entries are in use.
+	uc, uAt   []int32
+	uv, uDiag []float64
+	nu        int
 }
 
-func (a *analysis) valueAt(i, j int32) float64 {
-	for p, c := range a.rows.list(i) {
-		if c == j {
-			return a.rows.vals[a.rows.at[i]+int32(p)]
-		}
-	}
-	return 0
+// workSize is what an analysis of an n×n matrix with nnz slots needs
+// from its buffers: ints int32s, floats float64s and lines lines. The
+// rows and the columns get rowSlack spare places each for fill and
+// another spare for lines that outgrow theirs; L and U share nnz − n +
+// fill entries and each gets room for about half of them and the fill of
+// a few per row. Lists that outgrow these move to the heap.
+type workSize struct{ n, nnz, items, half, ints, floats, lines int }
+
+func newWorkSize(n, nnz int) workSize {
+	s := workSize{n: n, nnz: nnz, lines: 2 * n}
+	s.items = nnz + rowSlack*n + nnz/8 + n
+	s.half = max(nnz-n, 0)/2 + n + n/4
+	// Count-list heads, row and column items, pos, the pivot order,
+	// L's rows and step starts, U's columns and row starts, layout's
+	// scratch.
+	s.ints = 2*(n+2) + 2*s.items + n + 2*n + s.half + n + 1 + s.half + n + 1 + 3*n
+	// Row values, L's and U's values, U's diagonal.
+	s.floats = s.items + 2*s.half + n
+	return s
 }
 
-// Sizes of the stack buffers for an analysis's temporaries: enough for
-// circuits of about a hundred unknowns (a few tens of kilobytes of
-// stack), which then need no heap for them.
+func (s workSize) fits(ints, floats, lines int) bool {
+	return s.ints <= ints && s.floats <= floats && s.lines <= lines
+}
+
+// Buffers on the stack for an analysis's temporaries: the small ones
+// hold circuits of about 60 unknowns, the medium ones about 150 (a few
+// and a few tens of kilobytes of stack, zeroed at each call). Larger
+// matrices take them from the heap.
 const (
-	stackInts   = 3072
-	stackFloats = 1024
+	smallInts, smallFloats, smallLines    = 2048, 1024, 128
+	mediumInts, mediumFloats, mediumLines = 6144, 3072, 320
 )
 
 // analyse chooses a pivot order from m's values (restricted Markowitz with
 // the threshold test), factors m on the way, and lays out the static
 // structures that refactor reuses.
 func (f *LU) analyse(m *Matrix) error {
-	n := m.n
 	f.Analyses++
 	f.done = false
-	nnz := len(m.rows)
-	// Temporaries: every int32 array from one buffer and every float64
-	// array from another, on the stack when they fit (lists that grow
-	// with fill may move out of them). L and U share nnz − n + fill
-	// entries: each gets room for about half of them and the fill of a
-	// few per row before it must grow.
-	half := max(nnz-n, 0)/2 + n
-	var ibuf [stackInts]int32
-	var fbuf [stackFloats]float64
-	ar := arena[int32](ibuf[:])
-	if need := 30*n + 2*nnz + 3*half + 5; need > len(ar) {
-		ar = make([]int32, need)
+	s := newWorkSize(m.n, len(m.rows))
+	switch {
+	case s.fits(smallInts, smallFloats, smallLines):
+		return f.analyseSmall(m, s)
+	case s.fits(mediumInts, mediumFloats, mediumLines):
+		return f.analyseMedium(m, s)
 	}
-	fr := arena[float64](fbuf[:])
-	if need := 6*n + nnz + 2*half; need > len(fr) {
-		fr = make([]float64, need)
-	}
-	a := newAnalysis(m, &ar, &fr)
-	pos := ar.take(n) // scatter: column → position in the row being updated, −1 none
-	for i := range pos {
-		pos[i] = -1
-	}
-	// L entries as (original row, step, value), in step order.
-	lRow, lStep := ar.take(half)[:0], ar.take(half)[:0]
-	lVal := fr.take(half)[:0]
-	// U rows by step, original column numbers: uc[us[k]:us[k+1]].
-	uc := ar.take(half)[:0]
-	uv := fr.take(half)[:0]
-	us := ar.take(n + 1)
-	uDiag := fr.take(n)
-	rowPerm, colPerm := ar.take(n), ar.take(n)
+	return f.analyseIn(m, s, make([]int32, s.ints), make([]float64, s.floats), make([]line, s.lines))
+}
 
+// analyseSmall and analyseMedium run analyseIn on stack buffers; they are
+// not inlined so that only the call that uses a buffer zeroes it and has
+// it in its frame.
+//
+//go:noinline
+func (f *LU) analyseSmall(m *Matrix, s workSize) error {
+	var ib [smallInts]int32
+	var fb [smallFloats]float64
+	var lb [smallLines]line
+	return f.analyseIn(m, s, ib[:], fb[:], lb[:])
+}
+
+//go:noinline
+func (f *LU) analyseMedium(m *Matrix, s workSize) error {
+	var ib [mediumInts]int32
+	var fb [mediumFloats]float64
+	var lb [mediumLines]line
+	return f.analyseIn(m, s, ib[:], fb[:], lb[:])
+}
+
+// analyseIn is analyse with its temporaries carved from ints, floats and
+// lines (sized by s).
+func (f *LU) analyseIn(m *Matrix, s workSize, ints []int32, floats []float64, lines []line) error {
+	n := m.n
+	ar, fr := arena[int32](ints), arena[float64](floats)
+	a := analysis{n: n, row: lines[:n:n], col: lines[n : 2*n : 2*n]}
+	a.rl = countList{a.row, ar.take(n + 2)}
+	a.cl = countList{a.col, ar.take(n + 2)}
+	a.rc, a.rv, a.cr = ar.take(s.items), fr.take(s.items), ar.take(s.items)
+	a.pos = ar.take(n)
+	a.rowPerm, a.colPerm = ar.take(n), ar.take(n)
+	a.lRow, a.lAt, a.lVal = ar.take(s.half), ar.take(n+1), fr.take(s.half)
+	a.uc, a.uAt, a.uv = ar.take(s.half), ar.take(n+1), fr.take(s.half)
+	a.uDiag = fr.take(n)
+	a.load(m)
 	for k := 0; k < n; k++ {
-		p, q, ok := a.search()
-		if !ok {
+		if !a.step(k) {
 			return a.singular()
 		}
-		rowPerm[k], colPerm[k] = p, q
-		a.rowActive[p], a.colActive[q] = 0, 0
-		a.rl.remove(p)
-		a.cl.remove(q)
-		// The pivot row leaves the active submatrix: it becomes U's row k.
-		var piv float64
-		pv := a.rows.values(p)
-		for t, j := range a.rows.list(p) {
-			if j == q {
-				piv = pv[t]
-				continue
-			}
-			uc = append(uc, j)
-			uv = append(uv, pv[t])
-			a.cl.set(j, a.cl.count[j]-1)
-		}
-		us[k+1] = int32(len(uc))
-		uDiag[k] = piv
-		ucols, uvals := uc[us[k]:], uv[us[k]:]
-		// Eliminate column q from the other active rows.
-		for _, i := range a.cols.list(q) {
-			if a.rowActive[i] == 0 {
-				continue
-			}
-			rc, rv := a.rows.list(i), a.rows.values(i)
-			var aiq float64
-			for t, j := range rc {
-				if j == q {
-					aiq = rv[t]
-					last := len(rc) - 1
-					rc[t], rv[t] = rc[last], rv[last]
-					a.rows.size[i]--
-					break
-				}
-			}
-			l := aiq / piv
-			lRow = append(lRow, i)
-			lStep = append(lStep, int32(k))
-			lVal = append(lVal, l)
-			for t, j := range a.rows.list(i) {
-				pos[j] = int32(t)
-			}
-			for t, j := range ucols {
-				if pt := pos[j]; pt >= 0 {
-					a.rows.vals[a.rows.at[i]+pt] -= l * uvals[t]
-					continue
-				}
-				pos[j] = a.rows.size[i]
-				if a.rows.full(i) {
-					a.rows = a.rows.grow(i)
-				}
-				a.rows.push(i, j, -l*uvals[t])
-				if a.cols.full(j) {
-					a.cols = a.cols.grow(j)
-				}
-				a.cols.push(j, i, 0)
-				a.cl.set(j, a.cl.count[j]+1)
-			}
-			var big float64
-			rv = a.rows.values(i)
-			for t, j := range a.rows.list(i) {
-				pos[j] = -1
-				if x := math.Abs(rv[t]); x > big {
-					big = x
-				}
-			}
-			a.rowMax[i] = big
-			a.rl.set(i, a.rows.size[i])
-		}
-		a.cols.size[q] = 0
 	}
-	f.layout(m, rowPerm, colPerm, lRow, lStep, lVal, us, uc, uv, uDiag, &ar)
+	f.layout(m, &a, ar.take(3*n))
 	return nil
 }
 
-// layout lays out the static structures of the factorization in step
-// numbering from the analysis's results: the pivot order, L's entries as
-// (original row, step, value) in step order, and U's rows by step with
-// original column numbers, uc[us[k]:us[k+1]]. The structures that persist
-// take one int and one float64 allocation.
-func (f *LU) layout(m *Matrix, rowPerm, colPerm, lRow, lStep []int32, lVal []float64,
-	us, uc []int32, uv, uDiag []float64, ar *arena[int32]) {
-	n, nnz, nl, nu := m.n, len(m.rows), len(lRow), len(uc)
-	nz := n + nl + nu - nnz // fill, exact: A's entries are a subset of L, U and the diagonal
-	ir := arena[int32](make([]int32, 8*n+4+2*nnz+nl+nu+nz))
-	fv := arena[float64](make([]float64, nl+nu+2*n+nnz))
-	f.n, f.m = n, m
-	f.rowPerm, f.colPerm = ir.take(n), ir.take(n)
-	copy(f.rowPerm, rowPerm)
-	copy(f.colPerm, colPerm)
-	f.colStep = ir.take(n)
-	rowStep := ar.take(n)
-	for k := 0; k < n; k++ {
-		f.colStep[colPerm[k]] = int32(k)
-		rowStep[rowPerm[k]] = int32(k)
-	}
-	f.aStart = ir.take(n + 1)
-	f.aSlot = ir.take(nnz)[:0]
-	f.aCol = ir.take(nnz)[:0]
-	for k := 0; k < n; k++ {
-		for _, s := range m.RowSlots(int(rowPerm[k])) {
-			f.aSlot = append(f.aSlot, s)
-			f.aCol = append(f.aCol, f.colStep[m.cols[s]])
+// load sets up the active submatrix as m: every row and column active,
+// with its entries in ascending order (of column, of row).
+func (a *analysis) load(m *Matrix) {
+	n := a.n
+	rows, cols := a.row, a.col
+	mcols, vals, slots := m.cols, m.Values, m.rowSlots
+	rc, rv := a.rc, a.rv[:len(a.rc)]
+	off := 0
+	for i := range rows {
+		s0, s1 := span(m.rowStart, i, len(slots))
+		size := s1 - s0
+		if off+size > len(rc) {
+			panic("sparse: corrupt structure")
 		}
-		f.aStart[k+1] = int32(len(f.aSlot))
+		var big float64
+		for p := s0; p < s1; p++ {
+			s := slots[p]
+			v := vals[s]
+			rc[off], rv[off] = mcols[s], v
+			off++
+			if x := math.Abs(v); x > big {
+				big = x
+			}
+		}
+		rows[i] = line{at: int32(off - size), size: int32(size), room: int32(size + rowSlack), max: big}
+		off += rowSlack
 	}
-	// L by rows in step numbering: a counting sort of the entries, which
-	// keeps each row's steps ascending.
-	f.lStart = ir.take(n + 1)
+	a.rEnd = int32(off)
+	for j := range cols {
+		cols[j] = line{room: rowSlack}
+	}
+	for _, j := range mcols {
+		cols[j].room++
+	}
+	off = 0
+	for j := range cols {
+		c := &cols[j]
+		c.at = int32(off)
+		off += int(c.room)
+	}
+	a.cEnd = int32(off)
+	cr := a.cr
+	for i := range rows {
+		p0, p1 := rows[i].span(len(rc))
+		for p := p0; p < p1; p++ {
+			c := &cols[rc[p]]
+			cr[c.at+c.size] = int32(i)
+			c.size++
+		}
+	}
+	rh, ch := a.rl.head, a.cl.head
+	ch = ch[:len(rh)]
+	for c := range rh {
+		rh[c], ch[c] = -1, -1
+	}
+	for i := n - 1; i >= 0; i-- { // reverse, so that each list starts with its lowest index
+		a.rl.insert(int32(i), rows[i].size)
+		a.cl.insert(int32(i), cols[i].size)
+	}
+	pos := a.pos
+	for j := range pos {
+		pos[j] = -1
+	}
+}
+
+// step does step k of the elimination: it chooses the pivot, moves its
+// row to U and eliminates its column from the other active rows. It
+// reports false when no pivot is left.
+func (a *analysis) step(k int) bool {
+	p, q, ok := a.search()
+	if !ok {
+		return false
+	}
+	rows, cols := a.row, a.col
+	a.rowPerm[k], a.colPerm[k] = p, q
+	a.rl.remove(p)
+	a.cl.remove(q)
+	rows[p].count, cols[q].count = -1, -1 // inactive
+	// The pivot row leaves the active submatrix: it becomes U's row k.
+	u0 := a.nu
+	var piv float64
+	rc, rv := a.rc, a.rv[:len(a.rc)]
+	p0, p1 := rows[p].span(len(rc))
+	if u0+p1-p0 > len(a.uc) {
+		a.uc, a.uv = grow(a.uc, u0+p1-p0), grow(a.uv, u0+p1-p0)
+	}
+	uc, uv := a.uc, a.uv[:len(a.uc)]
+	u1 := u0
+	for t := p0; t < p1; t++ {
+		j := rc[t]
+		if j == q {
+			piv = rv[t]
+			continue
+		}
+		uc[u1], uv[u1] = j, rv[t]
+		u1++
+		a.cl.set(j, cols[j].count-1)
+	}
+	a.nu = u1
+	a.uAt[k], a.uAt[k+1] = int32(u0), int32(u1)
+	a.uDiag[k] = piv
+	// Eliminate column q from the other active rows.
+	nl := a.nl
+	a.lAt[k] = int32(nl)
+	cr := a.cr
+	c0, c1 := cols[q].span(len(cr))
+	for t := c0; t < c1; t++ {
+		i := cr[t]
+		if rows[i].count < 0 {
+			continue
+		}
+		l := a.eliminate(i, q, piv, u0, u1)
+		if nl == len(a.lRow) {
+			a.lRow, a.lVal = grow(a.lRow, nl+1), grow(a.lVal, nl+1)
+		}
+		a.lRow[nl], a.lVal[nl] = i, l
+		nl++
+	}
+	a.nl = nl
+	a.lAt[k+1] = int32(nl)
+	cols[q].size = 0
+	return true
+}
+
+// directLimit bounds the product of a row's length and the pivot row's
+// for which eliminate finds their common columns by scanning the row
+// rather than by scattering it into pos.
+const directLimit = 64
+
+// eliminate removes column q from active row i and subtracts l times the
+// pivot row (U's entries u0 to u1, without q) from it, where
+// l = a_iq / piv, which it returns. Columns of the pivot row that row i
+// lacks are appended to it (fill).
+func (a *analysis) eliminate(i, q int32, piv float64, u0, u1 int) float64 {
+	r := &a.row[i]
+	rc, rv := a.rc, a.rv[:len(a.rc)]
+	r0, r1 := r.span(len(rc))
+	var aiq float64
+	for t := r0; t < r1; t++ {
+		if rc[t] == q {
+			aiq = rv[t]
+			r1--
+			rc[t], rv[t] = rc[r1], rv[r1]
+			break
+		}
+	}
+	r.size = int32(r1 - r0)
+	l := aiq / piv
+	uc, uv := a.uc[:u1], a.uv[:u1]
+	if (r1-r0)*(u1-u0) <= directLimit {
+		for t := u0; t < u1; t++ {
+			j := uc[t]
+			p := r0
+			for p < r1 && rc[p] != j {
+				p++
+			}
+			if p < r1 {
+				rv[p] -= l * uv[t]
+				continue
+			}
+			if a.fill(r, i, j, -l*uv[t]) { // the row moved
+				rc, rv = a.rc, a.rv[:len(a.rc)]
+				r0, r1 = int(r.at), int(r.at)+(r1-r0)
+			}
+		}
+	} else {
+		pos := a.pos
+		for t := r0; t < r1; t++ {
+			pos[rc[t]] = int32(t - r0)
+		}
+		for t := u0; t < u1; t++ {
+			j := uc[t]
+			if p := pos[j]; p >= 0 {
+				a.rv[r.at+p] -= l * uv[t]
+				continue
+			}
+			a.fill(r, i, j, -l*uv[t])
+		}
+		rc = a.rc
+		for t := int(r.at); t < int(r.at)+(r1-r0); t++ {
+			pos[rc[t]] = -1
+		}
+		rv = a.rv[:len(a.rc)]
+	}
+	var big float64
+	r0, r1 = r.span(len(rv))
+	for t := r0; t < r1; t++ {
+		if x := math.Abs(rv[t]); x > big {
+			big = x
+		}
+	}
+	r.max = big
+	a.rl.set(i, r.size)
+	return l
+}
+
+// fill appends column j with value v to row r (index i), and i to column
+// j. It reports whether the row moved.
+func (a *analysis) fill(r *line, i, j int32, v float64) bool {
+	moved := r.size == r.room
+	if moved {
+		a.growRow(r)
+	}
+	a.rc[r.at+r.size] = j
+	a.rv[r.at+r.size] = v
+	r.size++
+	c := &a.col[j]
+	if c.size == c.room {
+		a.pruneCol(c)
+		if c.size == c.room {
+			a.growCol(c)
+		}
+	}
+	a.cr[c.at+c.size] = i
+	c.size++
+	a.cl.set(j, c.count+1)
+	return moved
+}
+
+// grow returns a copy of s on the heap with twice its length, or n if
+// that is more.
+func grow[T int32 | float64](s []T, n int) []T {
+	g := make([]T, max(2*len(s), n))
+	copy(g, s)
+	return g
+}
+
+// growRow moves row r to the end of the row slab, with room for twice
+// its items and rowSlack more. When the slab is full, it moves to a
+// larger one on the heap.
+func (a *analysis) growRow(r *line) {
+	room := 2*r.size + rowSlack
+	if end := int(a.rEnd + room); end > len(a.rc) {
+		size := max(2*len(a.rc), end)
+		rc, rv := make([]int32, size), make([]float64, size)
+		copy(rc, a.rc[:a.rEnd])
+		copy(rv, a.rv[:a.rEnd])
+		a.rc, a.rv = rc, rv
+	}
+	copy(a.rc[a.rEnd:], a.rc[r.at:r.at+r.size])
+	copy(a.rv[a.rEnd:], a.rv[r.at:r.at+r.size])
+	r.at, r.room = a.rEnd, room
+	a.rEnd += room
+}
+
+// pruneCol drops the rows that left the active submatrix from column c
+// (as search does; the order of the others is kept).
+func (a *analysis) pruneCol(c *line) {
+	cr, rows := a.cr, a.row
+	c0, c1 := c.span(len(cr))
+	live := c0
+	for t := c0; t < c1; t++ {
+		if i := cr[t]; rows[i].count >= 0 {
+			cr[live] = i
+			live++
+		}
+	}
+	c.size = int32(live - c0)
+}
+
+// growCol is growRow for column c.
+func (a *analysis) growCol(c *line) {
+	room := 2*c.size + rowSlack
+	if end := int(a.cEnd + room); end > len(a.cr) {
+		cr := make([]int32, max(2*len(a.cr), end))
+		copy(cr, a.cr[:a.cEnd])
+		a.cr = cr
+	}
+	copy(a.cr[a.cEnd:], a.cr[c.at:c.at+c.size])
+	c.at, c.room = a.cEnd, room
+	a.cEnd += room
+}
+
+// layout lays out the static structures of the factorization in step
+// numbering from the analysis's results (pivot order, L by steps, U by
+// rows, all in original numbering). scratch holds 3n int32s. The
+// structures that persist take one int32 and one float64 slab, those of
+// the last analysis when they are large enough.
+func (f *LU) layout(m *Matrix, a *analysis, scratch []int32) {
+	n, nnz, nl, nu := m.n, len(m.rows), a.nl, a.nu
+	nz := n + nl + nu - nnz // fill, exact: A's entries are a subset of L, U and the diagonal
+	ni, nf := 7*n+4+2*nnz+nl+nu+max(nz, 0), nl+nu+2*n+nnz
+	if cap(f.ints) < ni {
+		f.ints = make([]int32, ni)
+	}
+	if cap(f.floats) < nf {
+		f.floats = make([]float64, nf)
+	}
+	ir, fv := arena[int32](f.ints[:ni]), arena[float64](f.floats[:nf])
+	f.n, f.m = n, m
+	rowPerm, colPerm := ir.take(n), ir.take(n)
+	copy(rowPerm, a.rowPerm)
+	copy(colPerm, a.colPerm)
+	colStep, rowStep, next := scratch[:n], scratch[n:2*n], scratch[2*n:3*n]
+	for k, j := range colPerm {
+		colStep[j] = int32(k)
+	}
+	for k, i := range rowPerm {
+		rowStep[i] = int32(k)
+	}
+	// L by rows in step numbering: a counting sort of the entries by
+	// row, which keeps each row's steps ascending.
+	lStart := ir.take(n + 1)
+	clear(lStart)
+	lRow := a.lRow[:nl]
 	for _, i := range lRow {
-		f.lStart[rowStep[i]+1]++
+		lStart[rowStep[i]+1]++
 	}
 	for k := 0; k < n; k++ {
-		f.lStart[k+1] += f.lStart[k]
+		lStart[k+1] += lStart[k]
 	}
-	f.lCol = ir.take(nl)
-	f.lVal = fv.take(nl)
-	next := ar.take(n)
-	copy(next, f.lStart[:n])
-	for e, i := range lRow {
-		k := rowStep[i]
-		f.lCol[next[k]] = lStep[e]
-		f.lVal[next[k]] = lVal[e]
-		next[k]++
+	lCol, lVal := ir.take(nl), fv.take(nl)
+	copy(next, lStart[:n])
+	aVal := a.lVal[:len(lRow)]
+	for k := 0; k < n; k++ {
+		e0, e1 := span(a.lAt, k, len(lRow))
+		for e := e0; e < e1; e++ {
+			s := rowStep[lRow[e]]
+			lCol[next[s]] = int32(k)
+			lVal[next[s]] = aVal[e]
+			next[s]++
+		}
 	}
-	f.uStart = ir.take(n + 1)
-	copy(f.uStart, us)
-	f.uCol = ir.take(nu)
-	for t, j := range uc {
-		f.uCol[t] = f.colStep[j]
+	uStart := ir.take(n + 1)
+	copy(uStart, a.uAt)
+	uCol := ir.take(nu)
+	for t, j := range a.uc[:nu] {
+		uCol[t] = colStep[j]
 	}
-	f.uVal = fv.take(nu)
-	copy(f.uVal, uv)
-	f.uDiag = fv.take(n)
-	copy(f.uDiag, uDiag)
+	uVal, uDiag := fv.take(nu), fv.take(n)
+	copy(uVal, a.uv[:nu])
+	copy(uDiag, a.uDiag)
+	// A's rows in step numbering, and the fill of each row: its L, U and
+	// diagonal steps not in A's row.
+	aStart, aSlot, aCol := ir.take(n+1), ir.take(nnz), ir.take(nnz)
+	zStart, zCol := ir.take(n+1), ir.take(max(nz, 0))[:0]
+	mark := next // reused: step → 1 + the last row with an A entry there
+	clear(mark)
+	aStart[0], zStart[0] = 0, 0
+	slots, mcols := m.rowSlots, m.cols
+	e := 0
+	for k, i := range rowPerm {
+		row := int32(k) + 1
+		s0, s1 := span(m.rowStart, int(i), len(slots))
+		for p := s0; p < s1; p++ {
+			s := slots[p]
+			j := colStep[mcols[s]]
+			aSlot[e], aCol[e] = s, j
+			mark[j] = row
+			e++
+		}
+		aStart[k+1] = int32(e)
+		if mark[k] != row {
+			zCol = append(zCol, int32(k))
+		}
+		p0, p1 := span(lStart, k, len(lCol))
+		for p := p0; p < p1; p++ {
+			if j := lCol[p]; mark[j] != row {
+				zCol = append(zCol, j)
+			}
+		}
+		p0, p1 = span(uStart, k, len(uCol))
+		for p := p0; p < p1; p++ {
+			if j := uCol[p]; mark[j] != row {
+				zCol = append(zCol, j)
+			}
+		}
+		zStart[k+1] = int32(len(zCol))
+	}
+	f.rowPerm, f.colPerm = rowPerm, colPerm
+	f.aStart, f.aSlot, f.aCol = aStart, aSlot, aCol
+	f.zStart, f.zCol = zStart, zCol
+	f.lStart, f.lCol, f.lVal = lStart, lCol, lVal
+	f.uStart, f.uCol, f.uVal, f.uDiag = uStart, uCol, uVal, uDiag
 	f.w = fv.take(n)
 	f.aPrev = fv.take(nnz)
 	f.rowChanged = ir.take(n)
 	f.aValid = false
-	// The fill of each row: its L, U and diagonal steps not in A's row.
-	mark := next // reused: step → 1 + the last row with an A entry there
-	clear(mark)
-	f.zStart = ir.take(n + 1)
-	f.zCol = ir.take(max(nz, 0))[:0]
-	for k := int32(0); int(k) < n; k++ {
-		for _, j := range f.aCol[f.aStart[k]:f.aStart[k+1]] {
-			mark[j] = k + 1
-		}
-		if mark[k] != k+1 {
-			f.zCol = append(f.zCol, k)
-		}
-		for _, j := range f.lCol[f.lStart[k]:f.lStart[k+1]] {
-			if mark[j] != k+1 {
-				f.zCol = append(f.zCol, j)
-			}
-		}
-		for _, j := range f.uCol[f.uStart[k]:f.uStart[k+1]] {
-			if mark[j] != k+1 {
-				f.zCol = append(f.zCol, j)
-			}
-		}
-		f.zStart[k+1] = int32(len(f.zCol))
-	}
 	f.done = true
 }
 
@@ -649,25 +935,34 @@ func (a *analysis) search() (p, q int32, ok bool) {
 	best := math.MaxInt
 	bestRatio := 0.0
 	visited := 0
-	for c := 1; c <= a.n; c++ {
+	rows, cols := a.row, a.col
+	rl, cl := a.rl.head, a.cl.head
+	rc, rv, cr := a.rc, a.rv[:len(a.rc)], a.cr
+	for c, n := 1, a.n; c <= n; c++ {
 		// Columns with c active entries.
-		for j := a.cl.head[c]; j >= 0; j = a.cl.next[j] {
-			all := a.cols.list(j)
-			live := all[:0]
-			for _, i := range all {
-				if a.rowActive[i] != 0 {
-					live = append(live, i)
-				}
-			}
-			a.cols.size[j] = int32(len(live))
+		for j := cl[c]; j >= 0; j = cols[j].next {
+			col := &cols[j]
+			a.pruneCol(col) // only active rows are candidates
+			c0, c1 := col.span(len(cr))
 			cc := c - 1
-			for _, i := range live {
-				v := math.Abs(a.valueAt(i, j))
-				if v == 0 || !(v >= AnalysisThreshold*a.rowMax[i]) {
+			for t := c0; t < c1; t++ {
+				i := cr[t]
+				r := &rows[i]
+				// The value at (i, j).
+				var v float64
+				r0, r1 := r.span(len(rc))
+				for e := r0; e < r1; e++ {
+					if rc[e] == j {
+						v = rv[e]
+						break
+					}
+				}
+				v = math.Abs(v)
+				if v == 0 || !(v >= AnalysisThreshold*r.max) {
 					continue
 				}
-				cost := (int(a.rl.count[i]) - 1) * cc
-				ratio := v / a.rowMax[i]
+				cost := (int(r.count) - 1) * cc
+				ratio := v / r.max
 				if cost < best || (cost == best && ratio > bestRatio) {
 					best, bestRatio, p, q, ok = cost, ratio, i, j, true
 				}
@@ -680,16 +975,18 @@ func (a *analysis) search() (p, q int32, ok bool) {
 			}
 		}
 		// Rows with c active entries.
-		for i := a.rl.head[c]; i >= 0; i = a.rl.next[i] {
-			rmax := a.rowMax[i]
+		for i := rl[c]; i >= 0; i = rows[i].next {
+			r := &rows[i]
+			rmax := r.max
 			cr := c - 1
-			rv := a.rows.values(i)
-			for t, j := range a.rows.list(i) {
-				v := math.Abs(rv[t])
+			r0, r1 := r.span(len(rc))
+			for e := r0; e < r1; e++ {
+				v := math.Abs(rv[e])
 				if v == 0 || !(v >= AnalysisThreshold*rmax) {
 					continue
 				}
-				cost := cr * (int(a.cl.count[j]) - 1)
+				j := rc[e]
+				cost := cr * (int(cols[j].count) - 1)
 				ratio := v / rmax
 				if cost < best || (cost == best && ratio > bestRatio) {
 					best, bestRatio, p, q, ok = cost, ratio, i, j, true
@@ -712,22 +1009,23 @@ func (a *analysis) search() (p, q int32, ok bool) {
 // singular builds the error for the rows and columns left active.
 func (a *analysis) singular() error {
 	e := &SingularError{}
-	for i, act := range a.rowActive {
-		if act != 0 {
+	for i := range a.row {
+		if r := &a.row[i]; r.count >= 0 {
 			e.Rows = append(e.Rows, i)
-			if a.rows.size[i] == 0 {
+			if r.size == 0 {
 				e.Structural = true
 			}
 		}
 	}
-	for j, act := range a.colActive {
-		if act == 0 {
+	for j := range a.col {
+		c := &a.col[j]
+		if c.count < 0 {
 			continue
 		}
 		e.Cols = append(e.Cols, j)
 		live := false
-		for _, i := range a.cols.list(int32(j)) {
-			live = live || a.rowActive[i] != 0
+		for _, i := range a.cr[c.at : c.at+c.size] {
+			live = live || a.row[i].count >= 0
 		}
 		if !live {
 			e.Structural = true

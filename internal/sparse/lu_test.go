@@ -218,6 +218,27 @@ func TestRefactorAllocatesNothing(t *testing.T) {
 	}
 }
 
+// A re-analysis of a small matrix (forced here by calling analyse
+// directly) reuses the factorization's storage and keeps its temporaries
+// on the stack.
+func TestReanalysisAllocatesNothing(t *testing.T) {
+	rng := rand.New(rand.NewPCG(4, 4))
+	m, _ := circuitLike(rng, 42, 1, 4)
+	fillValues(rng, m)
+	var f LU
+	if err := f.Factor(m); err != nil {
+		t.Fatal(err)
+	}
+	allocs := testing.AllocsPerRun(20, func() {
+		if err := f.analyse(m); err != nil {
+			t.Fatal(err)
+		}
+	})
+	if allocs != 0 {
+		t.Errorf("re-analysis allocates %v times", allocs)
+	}
+}
+
 func BenchmarkAnalyse300(b *testing.B) {
 	rng := rand.New(rand.NewPCG(1, 2))
 	m, _ := circuitLike(rng, 300, 30, 6)

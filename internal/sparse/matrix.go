@@ -23,24 +23,39 @@ package sparse
 import "fmt"
 
 // Pattern collects the positions (row, column) of a matrix's structural
-// nonzeros and gives each position a slot: an index into Matrix.Values.
-// The slots of a row form a linked list through next (for
-// StructuralDefect); an open-addressing hash table from position to slot
-// finds a position in constant time however long its row. Indices are
-// int32: half the memory of int, and 2³¹ slots is far beyond any circuit.
+// nonzeros and gives each position a slot: an index into Matrix.Values,
+// in the order the positions first appear. The slots of a row form a
+// linked list through next. While rows are short (most circuit rows
+// hold a handful of positions), Slot finds a position by walking its
+// row's list; once the walks grow long on average, an open-addressing
+// hash table from position to slot takes over and finds a position in
+// constant time however long its row. Indices are int32: half the memory
+// of int, and 2³¹ slots is far beyond any circuit.
 type Pattern struct {
 	n    int
 	head []int32 // first slot of each row, −1 none
 	next []int32 // next slot of the same row, −1 none
+	size []int32 // number of slots of each row
 	rows []int32 // row of each slot
 	cols []int32 // column of each slot
 
 	// table[h] is 1 + the slot hashed to entry h, 0 for an empty entry
-	// (linear probing). Its length is a power of two, at least twice the
-	// number of slots.
+	// (linear probing), nil while the walks are short. Its length is a
+	// power of two, at least twice the number of slots.
 	table []int32
 	shift uint // 64 − log2(len(table))
+
+	long int // list steps walked in walks longer than scanLimit
 }
+
+// A walk longer than scanLimit list steps costs more than a hash-table
+// lookup. The table takes over once such walks add up to scanLimit steps
+// per slot (plus scanSlack slots, so that a few early walks along one
+// long row, such as a supply node's, do not decide alone).
+const (
+	scanLimit = 8
+	scanSlack = 16
+)
 
 // NewPattern returns an empty pattern for an n×n matrix.
 func NewPattern(n int) *Pattern { return NewPatternSize(n, 0) }
@@ -50,15 +65,14 @@ func NewPattern(n int) *Pattern { return NewPatternSize(n, 0) }
 func NewPatternSize(n, size int) *Pattern {
 	size = max(size, 8)
 	p := &Pattern{n: n}
-	ints := make([]int32, n+3*size)
-	p.head = ints[:n:n]
-	p.next = ints[n : n : n+size]
-	p.rows = ints[n+size : n+size : n+2*size]
-	p.cols = ints[n+2*size : n+2*size : n+3*size]
+	ints := make([]int32, 2*n+3*size)
+	p.head, p.size, ints = ints[:n:n], ints[n:2*n:2*n], ints[2*n:]
+	p.next = ints[0:0:size]
+	p.rows = ints[size : size : 2*size]
+	p.cols = ints[2*size : 2*size : 3*size]
 	for i := range p.head {
 		p.head[i] = -1
 	}
-	p.rehash(size)
 	return p
 }
 
@@ -97,18 +111,36 @@ func (p *Pattern) find(i, j int) int {
 // Slot returns the slot of position (i, j), adding the position when it
 // is new. It panics when i or j is outside [0, n).
 func (p *Pattern) Slot(i, j int) int {
-	if i < 0 || j < 0 || i >= p.n || j >= p.n {
+	if uint(i) >= uint(p.n) || uint(j) >= uint(p.n) {
 		panic(fmt.Sprintf("sparse: position (%d, %d) outside a %d×%d matrix", i, j, p.n, p.n))
+	}
+	if p.table == nil {
+		// Walk row i's list.
+		next, cols, c := p.next, p.cols, int32(j)
+		steps := 0
+		s := p.head[i]
+		for s >= 0 && cols[s] != c {
+			s = next[s]
+			steps++
+		}
+		if s < 0 {
+			s = int32(p.add(i, j))
+		}
+		if steps > scanLimit {
+			p.long += steps
+			if p.long > scanLimit*(len(p.rows)+scanSlack) {
+				// Hash from here on, with a table sized for the
+				// slots the pattern was made room for.
+				p.rehash(max(4*len(p.rows), cap(p.rows)))
+			}
+		}
+		return int(s)
 	}
 	h := p.find(i, j)
 	if e := p.table[h]; e != 0 {
 		return int(e - 1)
 	}
-	s := len(p.rows)
-	p.next = append(p.next, p.head[i])
-	p.head[i] = int32(s)
-	p.rows = append(p.rows, int32(i))
-	p.cols = append(p.cols, int32(j))
+	s := p.add(i, j)
 	if 2*len(p.rows) > len(p.table) {
 		p.rehash(4 * len(p.rows))
 	} else {
@@ -117,11 +149,34 @@ func (p *Pattern) Slot(i, j int) int {
 	return s
 }
 
+// sortLimit is the longest row Matrix sorts by insertion; past it, a
+// counting sort of all the slots is cheaper.
+const sortLimit = 32
+
+// longest returns the number of slots of the longest row.
+func (p *Pattern) longest() int {
+	var l int32
+	for _, s := range p.size {
+		l = max(l, s)
+	}
+	return int(l)
+}
+
+// add gives position (i, j) the next slot and returns it.
+func (p *Pattern) add(i, j int) int {
+	s := len(p.rows)
+	p.next = append(p.next, p.head[i])
+	p.head[i] = int32(s)
+	p.size[i]++
+	p.rows = append(p.rows, int32(i))
+	p.cols = append(p.cols, int32(j))
+	return s
+}
+
 // Matrix returns a matrix over the pattern with all values zero. Positions
 // added to the pattern afterwards are not part of the matrix.
 func (p *Pattern) Matrix() *Matrix {
 	n, nnz := p.n, len(p.rows)
-	ints := make([]int32, 2*nnz+2*(n+1))
 	m := &Matrix{
 		n: n,
 		// Shared with the pattern: later positions are appended
@@ -130,8 +185,36 @@ func (p *Pattern) Matrix() *Matrix {
 		cols:   p.cols[:nnz:nnz],
 		Values: make([]float64, nnz),
 	}
-	// Compressed rows: slots of each row in ascending column order, by a
-	// counting sort on the column and then a stable one on the row.
+	// Compressed rows: slots of each row in ascending column order.
+	if p.longest() <= sortLimit {
+		// Short rows: each row's list sorted by insertion, from its
+		// end (the list runs from the latest slot, and rows are often
+		// stamped in ascending column order).
+		ints := make([]int32, nnz+n+1)
+		m.rowSlots = ints[:nnz:nnz]
+		m.rowStart = ints[nnz:]
+		rowSlots, cols, next := m.rowSlots, m.cols, p.next
+		end := 0
+		for i := 0; i < n; i++ {
+			end += int(p.size[i])
+			m.rowStart[i+1] = int32(end)
+			first := end // rowSlots[first:end] is sorted
+			for s := p.head[i]; s >= 0; s = next[s] {
+				c := cols[s]
+				first--
+				t := first
+				for t+1 < end && cols[rowSlots[t+1]] < c {
+					rowSlots[t] = rowSlots[t+1]
+					t++
+				}
+				rowSlots[t] = s
+			}
+		}
+		return m
+	}
+	// Long rows: a counting sort on the column and then a stable one on
+	// the row.
+	ints := make([]int32, 2*nnz+2*(n+1))
 	m.rowSlots = ints[:nnz:nnz]
 	m.rowStart = ints[nnz : nnz+n+1 : nnz+n+1]
 	colStart := ints[nnz+n+1 : nnz+2*(n+1)]

@@ -1,0 +1,41 @@
+package sparse
+
+// identicalDigests are the digests of TestBitIdentical, one per group of
+// cases, recorded on amd64 from the code before its optimisation (commit
+// 264f2cc) with go test -run TestBitIdentical -v -args -identical.print.
+var identicalDigests = map[string]string{
+	"n1/reach4": "369fffc55b35a3f8dbe6a66e83dc3199",
+	"n1/reach6": "49eb821e7df388b0774ea812e270dd3e",
+	"n2/reach1": "ac9484fa3ba9ff39315944462b222378",
+	"n2/reach4": "efeefc14a34b75f5300daf3b89fd0dfd",
+	"n2/reach6": "01f07cf0af384646768140e96d918f93",
+	"n2/reach2": "91066b6af293beb4f58e5a65d3eff42d",
+	"n5/reach1": "443d0a8dc1f04baf21e2c1f41a228428",
+	"n5/reach4": "b4855cc4e650757bfa9f7dc3961779b8",
+	"n5/reach6": "b68e2d5b339b59c6a396b4bbdbb63108",
+	"n5/reach5": "4c7db8f376d6ae0821926e28e21a4419",
+	"n12/reach1": "cf98d9f6d3def97c7fb8a2ad0b90be99",
+	"n12/reach4": "68c2fcb1fa9b808f8955a6c934d5fc98",
+	"n12/reach6": "8fe74adbb58c49d172d061f5297cc85e",
+	"n12/reach12": "2a5e8275491ae7d5e639c1fea59db8cb",
+	"n42/reach1": "70c5fe015e9eb196c40076f5e9d949cb",
+	"n42/reach4": "799def9110ef5c194b681a5e1b15cc32",
+	"n42/reach6": "8e1da83937268e6eaeda90fa019744ee",
+	"n42/reach42": "e9d0954a27b4beebb978f22665fa2f36",
+	"n100/reach1": "9d17174fe78f2416c09fd13bc40127b9",
+	"n100/reach4": "ec2ddd915ff6330ffd3ff5227596791f",
+	"n100/reach6": "127c6580ff00b2f1f9cad31dc99129d0",
+	"n100/reach100": "66b2e80fa0e08f87c16f7ce2d0edd303",
+	"n300/reach1": "4ceb6de4be6922783ae2c0f01644e497",
+	"n300/reach4": "edb2dd69352b69fba6310ee1440adcd0",
+	"n300/reach6": "02d472c3af2c4cef9a24d283e7f52b88",
+	"random/n6": "207d1d365f07864e7fa9f6761ed5a5f7",
+	"holes/n6": "ffe85fff2d41077f6f8106b907e3301a",
+	"dense/n6": "2c4d517b67f71b7bb0af330edf983559",
+	"random/n30": "f96b02b965ddb0722d89906c67268551",
+	"holes/n30": "10f7f7cdd04c1ae580b5c9810c2eae19",
+	"dense/n30": "d3b566d8d25622ee25a9eba80934266f",
+	"random/n90": "6300d24429842ecae0d8ec34ddf5850b",
+	"holes/n90": "6a050bdf35579ed0ae143bf603f56124",
+	"dense/n90": "de7177b82bbf6ce0e2b20edf49de42af",
+}
