@@ -27,10 +27,10 @@ import (
 type Prepared struct {
 	s   *solver
 	trs []TerminalResistance
-	// lu is the factorization with the pivot order analysed at the
-	// start point from zero; each Solve starts from a copy of it. Its
-	// structure is never modified (a re-analysis makes new arrays), and
-	// its values are recomputed by the first refactor after a copy.
+	// lu holds the pivot order analysed at the start point from zero.
+	// It never factors again: each Solve restarts the solver's working
+	// LU from it (sparse.LU.Restart), so a re-analysis during one solve
+	// cannot reach the next.
 	lu     sparse.LU
 	layout resultLayout
 }
@@ -64,7 +64,7 @@ func Prepare(c *cases.Circuit) (*Prepared, error) {
 	s.evaluate(false)
 	s.assemble(0, 1)
 	if s.lu.Factor(s.jac) == nil {
-		p.lu = s.lu
+		p.lu, s.lu = s.lu, sparse.LU{} // each Solve restarts a working LU from it
 	}
 	p.layout = newResultLayout(s, trs)
 	return p, nil
@@ -73,7 +73,7 @@ func Prepare(c *cases.Circuit) (*Prepared, error) {
 // Solve finds the operating point as SolveWith does.
 func (p *Prepared) Solve(opt Options) (*OperatingPoint, error) {
 	s := p.s
-	s.lu = p.lu
+	s.lu.Restart(&p.lu)
 	x0 := s.x0
 	clear(x0)
 	if g := opt.Guess; g != nil && g.System != nil && g.System.Layout == s.sys.Layout && len(g.X) == len(x0) {
