@@ -16,55 +16,67 @@ func circuit42() (*Matrix, [][2]int) {
 	return m, pos
 }
 
-// BenchmarkAnalyse42 times a first factorization: the pivot analysis and
-// the layout of the factors.
-func BenchmarkAnalyse42(b *testing.B) {
-	m, _ := circuit42()
-	b.ReportAllocs()
-	for b.Loop() {
-		var f LU
-		if err := f.Factor(m); err != nil {
-			b.Fatal(err)
-		}
-	}
-}
-
-// BenchmarkAnalyse100 is BenchmarkAnalyse42 for a chain of 100 unknowns
-// (three source branches).
-func BenchmarkAnalyse100(b *testing.B) {
+// benchMatrices are the matrices the analysis and refactor benchmarks
+// run on: the 42-unknown circuit42, a chain of 100 unknowns (three source
+// branches) and one of 300 (30 branches, wider reach).
+func benchMatrices() []struct {
+	name string
+	m    *Matrix
+} {
 	rng := rand.New(rand.NewPCG(5, 2))
-	m, _ := circuitLike(rng, 100, 3, 4)
-	fillValues(rng, m)
-	b.ReportAllocs()
-	for b.Loop() {
-		var f LU
-		if err := f.Factor(m); err != nil {
-			b.Fatal(err)
-		}
+	m100, _ := circuitLike(rng, 100, 3, 4)
+	fillValues(rng, m100)
+	rng = rand.New(rand.NewPCG(1, 2))
+	m300, _ := circuitLike(rng, 300, 30, 6)
+	fillValues(rng, m300)
+	m42, _ := circuit42()
+	return []struct {
+		name string
+		m    *Matrix
+	}{{"n=42", m42}, {"n=100", m100}, {"n=300", m300}}
+}
+
+// BenchmarkAnalyse times a first factorization: the pivot analysis and
+// the layout of the factors.
+func BenchmarkAnalyse(b *testing.B) {
+	for _, bm := range benchMatrices() {
+		b.Run(bm.name, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				var f LU
+				if err := f.Factor(bm.m); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
 	}
 }
 
-// BenchmarkRefactor42 refactors with every value changed (two value sets
-// in turn), so no row's factors can be kept.
-func BenchmarkRefactor42(b *testing.B) {
-	m, _ := circuit42()
-	sets := [2][]float64{append([]float64(nil), m.Values...), make([]float64, m.Len())}
-	for s, v := range sets[0] {
-		sets[1][s] = v * 1.001
-	}
-	var f LU
-	if err := f.Factor(m); err != nil {
-		b.Fatal(err)
-	}
-	b.ReportMetric(float64(f.Fill()), "fill")
-	b.ReportAllocs()
-	k := 0
-	for b.Loop() {
-		copy(m.Values, sets[k%2])
-		k++
-		if err := f.Factor(m); err != nil {
-			b.Fatal(err)
-		}
+// BenchmarkRefactor refactors with every value changed (two value sets in
+// turn), so no row's factors can be kept.
+func BenchmarkRefactor(b *testing.B) {
+	for _, bm := range benchMatrices() {
+		m := bm.m
+		b.Run(bm.name, func(b *testing.B) {
+			sets := [2][]float64{append([]float64(nil), m.Values...), make([]float64, m.Len())}
+			for s, v := range sets[0] {
+				sets[1][s] = v * 1.001
+			}
+			var f LU
+			if err := f.Factor(m); err != nil {
+				b.Fatal(err)
+			}
+			b.ReportMetric(float64(f.Fill()), "fill")
+			b.ReportAllocs()
+			k := 0
+			for b.Loop() {
+				copy(m.Values, sets[k%2])
+				k++
+				if err := f.Factor(m); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
 	}
 }
 

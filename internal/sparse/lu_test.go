@@ -239,46 +239,6 @@ func TestReanalysisAllocatesNothing(t *testing.T) {
 	}
 }
 
-func BenchmarkAnalyse300(b *testing.B) {
-	rng := rand.New(rand.NewPCG(1, 2))
-	m, _ := circuitLike(rng, 300, 30, 6)
-	fillValues(rng, m)
-	for b.Loop() {
-		var f LU
-		if err := f.Factor(m); err != nil {
-			b.Fatal(err)
-		}
-	}
-}
-
-// BenchmarkRefactor300 refactors with every value changed each time (two
-// value sets in turn), so no row's factors can be kept.
-func BenchmarkRefactor300(b *testing.B) {
-	rng := rand.New(rand.NewPCG(1, 2))
-	m, _ := circuitLike(rng, 300, 30, 6)
-	fillValues(rng, m)
-	sets := [2][]float64{append([]float64(nil), m.Values...), make([]float64, m.Len())}
-	for s, v := range sets[0] {
-		sets[1][s] = v * 1.001
-	}
-	var f LU
-	if err := f.Factor(m); err != nil {
-		b.Fatal(err)
-	}
-	b.ReportMetric(float64(f.Fill()), "fill")
-	x := make([]float64, m.N())
-	b.ReportAllocs()
-	k := 0
-	for b.Loop() {
-		copy(m.Values, sets[k%2])
-		k++
-		if err := f.Factor(m); err != nil {
-			b.Fatal(err)
-		}
-		f.Solve(x, x)
-	}
-}
-
 // Refactoring with only some rows' values changed (as in a Newton
 // iteration, where only the devices' entries move) recomputes just the
 // rows that depend on them, and gives the same factors, bit for bit, as
