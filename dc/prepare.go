@@ -255,10 +255,16 @@ const (
 // circuit's part number k: the formulas of mna.PartCurrent with the
 // lookups by name done once.
 func currentRuleOf(sys *mna.System, k int, p *cases.Part) currentRule {
-	if b, ok := sys.Layout.Branch(p.Name); ok {
-		return currentRule{kind: ruleBranch, a: int32(b)}
-	}
 	t := sys.Terminals[k]
+	// A part has a branch current when its kind needs one, or when it
+	// controls another part: mna then puts a sense node, not its own, at
+	// its first terminal. Other parts skip the lookup by name.
+	sense := len(t) > 0 && t[0] >= 0 && sys.Layout.Unknowns[t[0]].Name != p.Nodes[0]
+	if sense || mna.HasBranch(p.Kind) {
+		if b, ok := sys.Layout.Branch(p.Name); ok {
+			return currentRule{kind: ruleBranch, a: int32(b)}
+		}
+	}
 	switch p.Kind {
 	case cases.Resistor:
 		return currentRule{kind: ruleResistor, a: int32(t[0]), b: int32(t[1]), factor: p.Value}

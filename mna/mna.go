@@ -157,10 +157,10 @@ func Build(c *cases.Circuit) (*System, error) {
 	}
 	extra := 0 // branch currents and sense nodes
 	for _, p := range c.Parts {
-		if hasBranch(p.Kind) || controls[p.Name] {
+		if HasBranch(p.Kind) || controls[p.Name] {
 			extra++
 		}
-		if controls[p.Name] && !hasBranch(p.Kind) {
+		if controls[p.Name] && !HasBranch(p.Kind) {
 			extra++
 		}
 	}
@@ -200,7 +200,7 @@ func Build(c *cases.Circuit) (*System, error) {
 			}
 			idx[i] = j
 		}
-		if controls[p.Name] && !hasBranch(p.Kind) {
+		if controls[p.Name] && !HasBranch(p.Kind) {
 			name := p.Name + senseSuffix
 			if _, clash := l.Node(name); clash {
 				return nil, fmt.Errorf("mna: internal node %q clashes with a node of the circuit", name)
@@ -210,7 +210,7 @@ func Build(c *cases.Circuit) (*System, error) {
 		s.Terminals[k] = idx
 	}
 	for _, p := range c.Parts {
-		if hasBranch(p.Kind) || controls[p.Name] {
+		if HasBranch(p.Kind) || controls[p.Name] {
 			l.AddBranch(p.Name)
 		}
 	}
@@ -218,7 +218,7 @@ func Build(c *cases.Circuit) (*System, error) {
 	// Room for the entries stamp writes, ground terminals included.
 	ng, nc := 0, 0
 	for _, p := range c.Parts {
-		if controls[p.Name] && !hasBranch(p.Kind) {
+		if controls[p.Name] && !HasBranch(p.Kind) {
 			ng += 4 // sense branch
 		}
 		switch p.Kind {
@@ -272,7 +272,7 @@ func (s *System) DCSources(c *cases.Circuit, b []float64) {
 }
 
 // hasBranch reports whether a part kind carries its own branch current.
-func hasBranch(k cases.Kind) bool {
+func HasBranch(k cases.Kind) bool {
 	switch k {
 	case cases.VoltageSource, cases.Inductor, cases.VCVS, cases.CCVS:
 		return true
@@ -282,7 +282,7 @@ func hasBranch(k cases.Kind) bool {
 
 // stamp stamps part p, whose terminals are the unknowns t.
 func (s *System) stamp(p *cases.Part, t []int, control bool) error {
-	if control && !hasBranch(p.Kind) {
+	if control && !HasBranch(p.Kind) {
 		// Zero-volt sense source from the real first terminal to the
 		// internal node: its branch current is the part's current.
 		k, _ := s.Layout.Branch(p.Name)
