@@ -271,7 +271,9 @@ func (s *System) DCSources(c *cases.Circuit, b []float64) {
 	}
 }
 
-// hasBranch reports whether a part kind carries its own branch current.
+// HasBranch reports whether parts of kind k carry a branch current of
+// their own (a part of another kind gets one only when its current
+// controls another part).
 func HasBranch(k cases.Kind) bool {
 	switch k {
 	case cases.VoltageSource, cases.Inductor, cases.VCVS, cases.CCVS:
