@@ -132,7 +132,7 @@ func runCompare(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "tangent compare: --plot-transfer %d: %s has %d [[transfer]] entries\n", fl.plotTransfer, caseName(file), len(c.Transfers))
 		return exitUsage
 	}
-	cols, code := compareColumns(c, fl.variants, temps, stderr)
+	cols, code := compareColumns("compare", c, fl.variants, temps, stderr)
 	if cols == nil {
 		return code
 	}
@@ -215,7 +215,7 @@ func parseTemperatures(lists []string) ([]temperature, error) {
 // compareColumns builds the columns: base, the variants (those named, or
 // all of the file's when neither --variant nor --temperature is given),
 // then one per temperature.
-func compareColumns(c *cases.Circuit, names []string, temps []temperature, stderr io.Writer) ([]column, int) {
+func compareColumns(cmd string, c *cases.Circuit, names []string, temps []temperature, stderr io.Writer) ([]column, int) {
 	cols := []column{{name: "base", note: "the case as written", circuit: c}}
 	if len(names) == 0 && len(temps) == 0 {
 		for _, v := range c.Variants {
@@ -225,13 +225,13 @@ func compareColumns(c *cases.Circuit, names []string, temps []temperature, stder
 	seen := map[string]bool{"base": true}
 	for _, n := range names {
 		if seen[n] {
-			fmt.Fprintf(stderr, "tangent compare: --variant %s: named twice (or the name of the base column)\n", n)
+			fmt.Fprintf(stderr, "tangent %s: --variant %s: named twice (or the name of the base column)\n", cmd, n)
 			return nil, exitUsage
 		}
 		seen[n] = true
 		vc, err := c.ApplyVariant(n)
 		if err != nil {
-			printFlagError(stderr, "compare", err)
+			fmt.Fprintf(stderr, "tangent %s: --variant %s: %v\n", cmd, n, err)
 			return nil, exitUsage
 		}
 		col := column{name: n, circuit: vc}
@@ -247,7 +247,7 @@ func compareColumns(c *cases.Circuit, names []string, temps []temperature, stder
 	}
 	for _, t := range temps {
 		if seen[t.name] {
-			fmt.Fprintf(stderr, "tangent compare: --temperature %s: given twice\n", strings.TrimPrefix(t.name, "T="))
+			fmt.Fprintf(stderr, "tangent %s: --temperature %s: given twice\n", cmd, strings.TrimPrefix(t.name, "T="))
 			return nil, exitUsage
 		}
 		seen[t.name] = true

@@ -33,24 +33,45 @@ func init() {
 }
 
 func runReport(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("report", "tangent report [FILE] [-o REPORT.html] [--set PATH=VALUE]",
+	fs := newFlags("report", "tangent report [FILE] [-o REPORT.html] [--variant NAME] [--temperature LIST] [--threshold PERCENT] [--set PATH=VALUE]",
 		"Analyse a case as bias, linearize, transfer, explain and compare do, and write one\n"+
 			"self-contained HTML file for a design review (inline style sheet and SVG figures, no\n"+
 			"scripts, nothing fetched from elsewhere; prints on A4 and Letter): the case, the bias\n"+
 			"point with regions and warnings, each device's small-signal model, for each transfer\n"+
 			"its rational forms, poles and zeros, Bode plot, pole-zero map and what sets each root,\n"+
-			"and the variants side by side. Every number is the one the other subcommands print\n"+
-			"with --json. The file is written through a temporary file and a rename: a failed run\n"+
-			"leaves an existing report as it was.\n"+
+			"and the variants side by side. The side-by-side section has the columns of compare:\n"+
+			"the base case and every variant of the file, or those named by --variant, and with\n"+
+			"--temperature one more column per temperature (the file's variants then only when\n"+
+			"named); rows that some column moves by more than --threshold are marked. Every\n"+
+			"number is the one the other subcommands print with --json (compare with the same\n"+
+			"--variant, --temperature and --threshold). The file is written through a temporary\n"+
+			"file and a rename: a failed run leaves an existing report as it was.\n"+
 			"Exit status 0 when written, 1 when the analysis fails, 2 for bad input or an\n"+
 			"unwritable output.", stderr)
 	output := fs.StringP("output", "o", "", "write the report to `FILE`; default NAME_report.html in the current folder, NAME the\n"+
 		"case file's base name (the example's name for an embedded example); - writes to stdout")
+	var variants, temperatures []string
+	var threshold string
+	fs.StringArrayVar(&variants, "variant", nil, "side by side, only the variant `NAME` (repeatable)")
+	fs.StringArrayVar(&temperatures, "temperature", nil, "side by side, add a column per temperature in `LIST`, comma-separated:\n"+
+		"\"-40,27,85\" (a bare number is °C) or \"233.15 K,85 °C\"; the file's variants are\n"+
+		"then compared only when named by --variant")
+	fs.StringVar(&threshold, "threshold", "5", "mark rows that change by more than `PERCENT` against the base")
 	var cf caseFlags
 	cf.register(fs)
 	file, code, ok := parseFileArgs(fs, args, stderr)
 	if !ok {
 		return code
+	}
+	opts := reportOptions{variants: variants}
+	var err error
+	if opts.threshold, err = parseThreshold(threshold); err != nil {
+		fmt.Fprintf(stderr, "tangent report: --threshold %q: %v\n", threshold, err)
+		return exitUsage
+	}
+	if opts.temperatures, err = parseTemperatures(temperatures); err != nil {
+		fmt.Fprintf(stderr, "tangent report: --temperature: %v\n", err)
+		return exitUsage
 	}
 	path := *output
 	if path == "" {
@@ -60,7 +81,8 @@ func runReport(args []string, stdout, stderr io.Writer) int {
 	if c == nil {
 		return code
 	}
-	page, code := buildReport(file, c, cf.sets, stderr)
+	opts.sets = cf.sets
+	page, code := buildReport(file, c, opts, stderr)
 	if page == nil {
 		return code
 	}
@@ -104,21 +126,27 @@ type reportInputs struct {
 	results []*ac.Result
 	expl    []*explained // nil where the explanation failed
 	explErr []error
-	cols    []column
+	cols    []column // nil when there is nothing to set side by side
 	colRes  []columnResult
 	rows    []*compareRow
-	sets    []string // the --set flags
+	opts    reportOptions
 	docs    map[string]any
 }
 
-// compareThreshold is the change, in percent, the comparison marks: the
-// default of "tangent compare".
-const compareThreshold = 5
+// reportOptions are the flags of a report beyond the case: the --set
+// flags, and the side-by-side columns and threshold as "tangent compare"
+// takes them (--variant, --temperature, --threshold).
+type reportOptions struct {
+	sets         []string
+	variants     []string      // the variants named; none: all of the file's, unless temperatures are given
+	temperatures []temperature // one column each
+	threshold    float64       // percent; compare's default is 5
+}
 
 // buildReport runs the analyses and lays out the page. On failure it
 // prints the reason and returns a nil page and the exit status.
-func buildReport(file string, c *cases.Circuit, sets []string, stderr io.Writer) (*report.Report, int) {
-	in, code := analyseForReport(file, c, sets, stderr)
+func buildReport(file string, c *cases.Circuit, opts reportOptions, stderr io.Writer) (*report.Report, int) {
+	in, code := analyseForReport(file, c, opts, stderr)
 	if in == nil {
 		return nil, code
 	}
@@ -138,8 +166,17 @@ func buildReport(file string, c *cases.Circuit, sets []string, stderr io.Writer)
 
 // analyseForReport runs bias, linearize, transfer, explain and compare on
 // c and builds their JSON documents.
-func analyseForReport(file string, c *cases.Circuit, sets []string, stderr io.Writer) (*reportInputs, int) {
-	in := &reportInputs{file: caseName(file), c: c, sets: sets, docs: map[string]any{}}
+func analyseForReport(file string, c *cases.Circuit, opts reportOptions, stderr io.Writer) (*reportInputs, int) {
+	in := &reportInputs{file: caseName(file), c: c, opts: opts, docs: map[string]any{}}
+	// The columns first: a bad --variant or --temperature is bad input,
+	// whatever the analysis would give.
+	if len(c.Variants) > 0 || len(opts.variants) > 0 || len(opts.temperatures) > 0 {
+		cols, code := compareColumns("report", c, opts.variants, opts.temperatures, stderr)
+		if cols == nil {
+			return nil, code
+		}
+		in.cols = cols
+	}
 	op, code := solveBias("report", c, stderr)
 	if op == nil {
 		return nil, code
@@ -174,14 +211,9 @@ func analyseForReport(file string, c *cases.Circuit, sets []string, stderr io.Wr
 		in.expl = append(in.expl, &explained{x, explainPortEquivalents(eq.Circuit, t, nil)})
 		in.explErr = append(in.explErr, nil)
 	}
-	if len(c.Variants) > 0 {
-		cols, code := compareColumns(c, nil, nil, stderr)
-		if cols == nil {
-			return nil, code
-		}
-		in.cols = cols
-		in.colRes = analyseColumns(cols, -1, runtime.GOMAXPROCS(0))
-		in.rows = compareRows(c, cols, in.colRes)
+	if in.cols != nil {
+		in.colRes = analyseColumns(in.cols, -1, runtime.GOMAXPROCS(0))
+		in.rows = compareRows(c, in.cols, in.colRes)
 	}
 
 	// The documents as the subcommands print them (see jsonTree).
@@ -196,7 +228,7 @@ func analyseForReport(file string, c *cases.Circuit, sets []string, stderr io.Wr
 		"check":     summarize(c),
 	}
 	if in.cols != nil {
-		docs["compare"] = compareJSON(in.file, c, sets, compareThreshold, in.cols, in.colRes, in.rows)
+		docs["compare"] = compareJSON(in.file, c, opts.sets, opts.threshold, in.cols, in.colRes, in.rows)
 	}
 	for _, name := range slices.Sorted(maps.Keys(docs)) {
 		tree, err := jsonTree(docs[name])
@@ -525,9 +557,9 @@ func (b *pageBuilder) build() *report.Report {
 		_, r.TitleSrc = b.lookup("check", "title")
 	}
 	r.Meta = []report.Line{b.metaLine()}
-	if len(in.sets) > 0 {
+	if len(in.opts.sets) > 0 {
 		line := report.L(report.T("The case as changed on the command line: "))
-		for i, set := range in.sets {
+		for i, set := range in.opts.sets {
 			if i > 0 {
 				line = append(line, report.T(", "))
 			}
@@ -1538,10 +1570,26 @@ func (b *pageBuilder) ports(tr *report.Transfer, i int) {
 	}
 }
 
+// columnWords says what the columns other than the base are, for the
+// captions of the side-by-side section: the variants (all of the file's,
+// or those --variant names) and the case at each --temperature.
+func (b *pageBuilder) columnWords() (captionWords, overlayWords, title string) {
+	nt := len(b.in.opts.temperatures)
+	switch {
+	case nt == 0:
+		return "each variant", "its variants", "Variants side by side"
+	case len(b.in.cols) == 1+nt:
+		return "the case at each temperature given by --temperature", "the case at each temperature", "Temperatures side by side"
+	}
+	return "each variant named by --variant and the case at each temperature given by --temperature",
+		"the variants named and the case at each temperature", "Variants and temperatures side by side"
+}
+
 func (b *pageBuilder) variants() *report.Variants {
 	in := b.in
-	v := &report.Variants{}
-	cols := &report.Table{ID: "variant-columns", Caption: "Columns: the case as written and each variant", Keep: true,
+	captionWords, overlayWords, title := b.columnWords()
+	v := &report.Variants{Title: title}
+	cols := &report.Table{ID: "variant-columns", Caption: "Columns: the case as written and " + captionWords, Keep: true,
 		Cols: []report.Col{{Head: "column"}, {Head: "temperature", Num: true}, {Head: "what it changes"}, {Head: "keys it sets"}}}
 	for j, col := range in.cols {
 		temp := report.Line{report.T("failed")}
@@ -1590,12 +1638,16 @@ func (b *pageBuilder) variants() *report.Variants {
 		err := plot.Bode(&svg, fmt.Sprintf("%s → %s, %s: every column", t.From, t.To, kindWords(t.Kind)), curves,
 			plot.BodeOptions{MagnitudeLabel: magnitudeLabel(t.Kind), Markers: markers, Width: reportBodeWidth, Height: reportBodeHeight})
 		if fig, ok := b.figure(err, svg.Bytes(), fmt.Sprintf("v%d-bode", ti+1), "wide",
-			"The base case and its variants overlaid; the base's −3 dB points are marked."); ok {
+			"The base case and "+overlayWords+" overlaid; the base's −3 dB points are marked."); ok {
 			v.Figures = append(v.Figures, fig)
 		}
 	}
 
-	ch := &report.Table{ID: "variant-changes", Caption: "Side by side: each variant with its change against the base",
+	changeWords := "each variant"
+	if len(in.opts.temperatures) > 0 {
+		changeWords = "each column"
+	}
+	ch := &report.Table{ID: "variant-changes", Caption: "Side by side: " + changeWords + " with its change against the base",
 		Cols: []report.Col{{Head: ""}, {Head: "quantity"}, {Head: in.cols[0].name, Num: true}}}
 	for _, col := range in.cols[1:] {
 		ch.Cols = append(ch.Cols, report.Col{Head: col.name, Num: true}, report.Col{Head: "change", Num: true})
@@ -1623,7 +1675,7 @@ func (b *pageBuilder) variants() *report.Variants {
 		switch {
 		case row.differs():
 			mark, tone = "≠", "mark"
-		case row.marked(compareThreshold):
+		case row.marked(in.opts.threshold):
 			mark, tone = "*", "mark"
 		}
 		cells := []report.Line{report.Plain(mark), {b.quote("compare", append(rp, "quantity")...)}}
@@ -1663,7 +1715,7 @@ func (b *pageBuilder) variants() *report.Variants {
 					tone = "strong"
 				default:
 					change = report.L(report.N(b.num(func(v float64) string { return changeText(v, true, v == 0) }, "—", "compare", cp...)))
-					if math.Abs(pct) > compareThreshold {
+					if math.Abs(pct) > in.opts.threshold {
 						tone = "strong"
 					}
 				}

@@ -12,6 +12,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -33,24 +34,36 @@ import (
 
 // reportDocs runs the subcommands with --json on an example and returns
 // their documents, and the case's input values as package cases reads
-// them (the "case" document).
-func reportDocs(t testing.TB, example string) map[string]any {
+// them (the "case" document). compareFlags go to compare alone (the
+// report's --variant, --temperature and --threshold).
+func reportDocs(t testing.TB, example string, compareFlags ...string) map[string]any {
+	t.Helper()
+	c, err := cases.Example(example)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return reportDocsOf(t, "example:"+example, c, compareFlags...)
+}
+
+// reportDocsOf is reportDocs for the case file (or example:NAME) file,
+// which reads as c.
+func reportDocsOf(t testing.TB, file string, c *cases.Circuit, compareFlags ...string) map[string]any {
 	t.Helper()
 	docs := map[string]any{}
 	for _, sub := range []string{"bias", "linearize", "transfer", "explain", "compare", "check"} {
-		code, out, errs := runArgs(sub, "--json", "example:"+example)
+		args := []string{sub, "--json", file}
+		if sub == "compare" {
+			args = append(args, compareFlags...)
+		}
+		code, out, errs := runArgs(args...)
 		if code != exitOK {
-			t.Fatalf("%s --json example:%s: exit %d: %s", sub, example, code, errs)
+			t.Fatalf("%v: exit %d: %s", args, code, errs)
 		}
 		var v any
 		if err := json.Unmarshal([]byte(out), &v); err != nil {
 			t.Fatalf("%s --json: %v", sub, err)
 		}
 		docs[sub] = v
-	}
-	c, err := cases.Example(example)
-	if err != nil {
-		t.Fatal(err)
 	}
 	jsonNum := func(v float64) any {
 		if math.IsInf(v, 0) {
@@ -781,7 +794,7 @@ func BenchmarkReport(b *testing.B) {
 				b.Fatal(err)
 			}
 			for b.Loop() {
-				page, code := buildReport("example:"+ex, c, nil, io.Discard)
+				page, code := buildReport("example:"+ex, c, reportOptions{threshold: 5}, io.Discard)
 				if page == nil {
 					b.Fatalf("exit %d", code)
 				}
@@ -806,5 +819,260 @@ func TestReportSet(t *testing.T) {
 	// IEC 60062: 4k7 is 4.7 kΩ.
 	if !regexp.MustCompile(`data-src="case#/parts/RC/value" data-value="4700">4.700 kΩ<`).MatchString(page) {
 		t.Error("the parts table does not show RC = 4.7 kΩ")
+	}
+}
+
+// tableByID is the element with that id in page (nil when there is none).
+func tableByID(t *testing.T, page []byte, id string) *html.Node {
+	t.Helper()
+	doc, err := html.Parse(bytes.NewReader(page))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, n := range findAll(doc, func(n *html.Node) bool { v, ok := attr(n, "id"); return ok && v == id }) {
+		return n
+	}
+	return nil
+}
+
+// bodyRows are the rows of a table's body that are not group headings,
+// each as the texts of its cells.
+func bodyRows(table *html.Node) [][]string {
+	var out [][]string
+	for _, tr := range findAll(table, func(n *html.Node) bool { return n.Type == html.ElementNode && n.Data == "tr" }) {
+		if tr.Parent == nil || tr.Parent.Data != "tbody" || hasClass(tr, "group") {
+			continue
+		}
+		var cells []string
+		for c := tr.FirstChild; c != nil; c = c.NextSibling {
+			if c.Type == html.ElementNode && (c.Data == "td" || c.Data == "th") {
+				cells = append(cells, strings.TrimSpace(textOf(c)))
+			}
+		}
+		out = append(out, cells)
+	}
+	return out
+}
+
+// markedRows counts the rows of the side-by-side table marked * or ≠.
+func markedRows(t *testing.T, page []byte) int {
+	t.Helper()
+	table := tableByID(t, page, "variant-changes")
+	if table == nil {
+		t.Fatal("no side-by-side table")
+	}
+	n := 0
+	for _, r := range bodyRows(table) {
+		if len(r) > 0 && (r[0] == "*" || r[0] == "≠") {
+			n++
+		}
+	}
+	return n
+}
+
+// The side-by-side flags, as "tangent compare" takes them: the page has
+// the columns asked for, and every number on it is one of the other
+// subcommands' JSON, compare's with the same flags (consistency with
+// tangent compare --json).
+func TestReportCompareFlags(t *testing.T) {
+	// A case without variants: sallen_key with its [variants.*] left out.
+	dir := t.TempDir()
+	src, err := cases.ExampleSource("sallen_key")
+	if err != nil {
+		t.Fatal(err)
+	}
+	plain := filepath.Join(dir, "plain.toml")
+	before, _, _ := strings.Cut(string(src), "[variants.")
+	if err := os.WriteFile(plain, []byte(before), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name    string
+		file    string
+		flags   []string
+		columns []string
+		temps   []string // the temperature column as shown, SI Brochure 9th ed., 2.3.1: t/°C = T/K − 273.15
+		heading string
+	}{
+		{"temperatures", "", []string{"--temperature", "-40,85"},
+			[]string{"base", "T=-40 °C", "T=85 °C"}, []string{"27.00 °C", "−40.00 °C", "85.00 °C"}, "Temperatures side by side"},
+		{"variant, kelvin and threshold", "example:ce_amplifier", []string{"--variant", "hot_enclosure", "--temperature", "233.15 K", "--threshold", "2.5 %"},
+			[]string{"base", "hot_enclosure", "T=233.15 K"}, nil, "Variants and temperatures side by side"},
+		{"variants named", "example:cs_mirror", []string{"--variant", "long_channel", "--variant", "double_reference"},
+			[]string{"base", "long_channel", "double_reference"}, nil, "Variants side by side"},
+		{"a case without variants", plain, []string{"--temperature", "0,50"},
+			[]string{"base", "T=0 °C", "T=50 °C"}, nil, "Temperatures side by side"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			args := append([]string{"report"}, c.flags...)
+			if c.file != "" {
+				args = append(args, c.file)
+			}
+			code, out, errs := runArgs(append(args, "-o", "-")...)
+			if code != exitOK {
+				t.Fatalf("%v: exit %d: %s", args, code, errs)
+			}
+			page := []byte(out)
+			if h := `<h2 id="variants-title">` + c.heading + `</h2>`; !strings.Contains(out, h) {
+				t.Errorf("no %s in the page", h)
+			}
+			var circuit *cases.Circuit
+			file := c.file
+			if file == "" {
+				file = cases.ExampleFile(cases.DefaultExample)
+			}
+			if name, ok := strings.CutPrefix(file, "example:"); ok {
+				circuit, err = cases.Example(name)
+			} else {
+				circuit, err = cases.Load(file)
+			}
+			if err != nil {
+				t.Fatal(err)
+			}
+			devices := false
+			for _, p := range circuit.Parts {
+				devices = devices || cases.IsDevice(p.Kind)
+			}
+			checkStructure(t, page, len(circuit.Transfers), true, devices)
+			errs2, checked := checkPage(page, reportDocsOf(t, file, circuit, c.flags...))
+			for _, e := range errs2 {
+				t.Error(e)
+			}
+			if checked < 100 {
+				t.Errorf("only %d numbers, quotes and formulas checked", checked)
+			}
+			var names, temps []string
+			for _, r := range bodyRows(tableByID(t, page, "variant-columns")) {
+				names = append(names, r[0])
+				temps = append(temps, r[1])
+			}
+			if !slices.Equal(names, c.columns) {
+				t.Errorf("columns %q, want %q", names, c.columns)
+			}
+			if c.temps != nil && !slices.Equal(temps, c.temps) {
+				t.Errorf("column temperatures %q, want %q", temps, c.temps)
+			}
+			var heads []string
+			for _, th := range findAll(tableByID(t, page, "variant-changes"), func(n *html.Node) bool { return n.Data == "th" && n.Parent.Parent.Data == "thead" }) {
+				if h := textOf(th); h != "change" && h != "" && h != "quantity" {
+					heads = append(heads, h)
+				}
+			}
+			if !slices.Equal(heads, c.columns) {
+				t.Errorf("side-by-side heads %q, want %q", heads, c.columns)
+			}
+		})
+	}
+}
+
+// --threshold moves the marks as in compare: a lower threshold marks at
+// least as many rows, a higher one no more, and the rows marked are as
+// many as compare --json marks with the same threshold (consistency with
+// tangent compare --json); "5 %" is the default, byte for byte.
+func TestReportThreshold(t *testing.T) {
+	marks := map[string]int{}
+	pages := map[string]string{}
+	for _, th := range []string{"", "1", "5 %", "50"} {
+		args, flags := []string{"report", "-o", "-"}, []string(nil)
+		if th != "" {
+			flags = []string{"--threshold", th}
+		}
+		code, page, errs := runArgs(append(args, flags...)...)
+		if code != exitOK {
+			t.Fatalf("--threshold %q: exit %d: %s", th, code, errs)
+		}
+		pages[th] = page
+		marks[th] = markedRows(t, []byte(page))
+		docs := reportDocs(t, cases.DefaultExample, flags...)
+		if e, _ := checkPage([]byte(page), docs); len(e) != 0 {
+			t.Errorf("--threshold %q: %v", th, e)
+		}
+		want := 0
+		for _, r := range docs["compare"].(map[string]any)["rows"].([]any) {
+			if r.(map[string]any)["marked"] == true {
+				want++
+			}
+		}
+		if marks[th] != want {
+			t.Errorf("--threshold %q: %d rows marked, compare --json marks %d", th, marks[th], want)
+		}
+	}
+	t.Logf("rows marked: %v", marks)
+	if marks["1"] < marks[""] || marks["50"] > marks[""] {
+		t.Errorf("rows marked at 1 %%, 5 %%, 50 %%: %d, %d, %d; want them not increasing", marks["1"], marks[""], marks["50"])
+	}
+	if marks["1"] == marks["50"] {
+		t.Error("1 % and 50 % mark the same rows: the test shows nothing")
+	}
+	if pages["5 %"] != pages[""] {
+		t.Error("--threshold \"5 %\" does not give the default page")
+	}
+}
+
+// Bad side-by-side flags are bad input, as in compare: exit 2, a message
+// naming the flag, and no report written.
+func TestReportCompareFlagErrors(t *testing.T) {
+	dir := t.TempDir()
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--variant", "nope"}, "--variant nope"},
+		{[]string{"example:sallen_key", "--variant", "no_early"}, "--variant no_early"},
+		{[]string{"--variant", "base"}, "--variant base"},
+		{[]string{"--variant", "no_early", "--variant", "no_early"}, "--variant no_early"},
+		{[]string{"--threshold", "x"}, "--threshold"},
+		{[]string{"--threshold", "-1"}, "--threshold"},
+		{[]string{"--temperature", "-40,,85"}, "--temperature"},
+		{[]string{"--temperature", "-300"}, "--temperature"},
+		{[]string{"--temperature", "warm"}, "--temperature"},
+		{[]string{"--temperature", "27,27"}, "--temperature"},
+	} {
+		out := filepath.Join(dir, "r.html")
+		code, _, errs := runArgs(append(append([]string{"report"}, c.args...), "-o", out)...)
+		if code != exitUsage {
+			t.Errorf("%q: exit %d, want %d (%s)", c.args, code, exitUsage, errs)
+		}
+		if !strings.HasPrefix(errs, "tangent report: ") || !strings.Contains(errs, c.want) {
+			t.Errorf("%q: message %q does not name %s", c.args, errs, c.want)
+		}
+		if _, err := os.Stat(out); err == nil {
+			t.Errorf("%q: a report was written", c.args)
+		}
+	}
+}
+
+// A physical check of the temperature columns: the diode thermometer's
+// sensing voltage falls with temperature by about 2 mV/K (a silicon
+// junction at constant current, common practice; the example's own
+// comment says so too).
+func TestReportTemperatureDiode(t *testing.T) {
+	flags := []string{"--temperature", "-40,85"}
+	code, out, errs := runArgs(append([]string{"report", "example:diode_thermometer", "-o", "-"}, flags...)...)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	page := []byte(out)
+	if e, _ := checkPage(page, reportDocs(t, "diode_thermometer", flags...)); len(e) != 0 {
+		t.Fatalf("the page does not trace to the JSON: %v", e)
+	}
+	// The values of the V(sense) row, as the page carries them.
+	doc, _ := html.Parse(bytes.NewReader(page))
+	v := map[string]float64{}
+	for _, n := range findAll(doc, func(n *html.Node) bool { s, _ := attr(n, "data-src"); return strings.Contains(s, "/values/") }) {
+		tr := n.Parent.Parent
+		if !strings.Contains(textOf(tr), "V(sense)") {
+			continue
+		}
+		src, _ := attr(n, "data-src")
+		dv, _ := attr(n, "data-value")
+		v[src[strings.LastIndex(src, "/")+1:]], _ = strconv.ParseFloat(dv, 64)
+	}
+	if len(v) != 3 {
+		t.Fatalf("V(sense) row: %v", v)
+	}
+	slope := (v["2"] - v["1"]) / 125 // V/K, from −40 °C to 85 °C
+	if slope > -1.5e-3 || slope < -2.5e-3 {
+		t.Errorf("V(sense) falls by %.2f mV/K over −40…85 °C, want about −2 mV/K", 1e3*slope)
 	}
 }

@@ -104,6 +104,7 @@ type PortEquivalent struct {
 // Variants is the side-by-side comparison of the base case and its
 // variants.
 type Variants struct {
+	Title   string // the section's heading, e.g. "Variants side by side"
 	Columns *Table
 	Changes *Table
 	Figures []Figure
