@@ -15,7 +15,8 @@ import (
 // order chosen at the start point from zero, and the layout of the result
 // tables worked out. Solve then costs only the Newton iterations and the
 // numbers of the tables, so a caller that solves one circuit many times
-// (a benchmark, a sweep of start points) pays the set-up once.
+// (SweepSource, a benchmark, a run from several start points) pays the
+// set-up once.
 //
 // Every Solve starts from the same prepared state, so its answer depends
 // only on the circuit and the options, never on earlier solves: a
