@@ -160,48 +160,6 @@ func SolveWith(c *cases.Circuit, opt Options) (*OperatingPoint, error) {
 	return p.Solve(opt)
 }
 
-// kindTerminals remembers cases.Terminals per kind: that function builds
-// a new slice at every call. A kind not among the first few is looked up
-// every time.
-type kindTerminals struct {
-	n     int
-	kinds [8]cases.Kind
-	names [8][]string
-}
-
-func (c *kindTerminals) of(k cases.Kind) []string {
-	for i := 0; i < c.n; i++ {
-		if c.kinds[i] == k {
-			return c.names[i]
-		}
-	}
-	t := cases.Terminals(k)
-	if c.n < len(c.kinds) {
-		c.kinds[c.n], c.names[c.n] = k, t
-		c.n++
-	}
-	return t
-}
-
-// partTerminals returns the number of terminals reported for p: its
-// nodes, and always four for a mosfet (body included).
-func partTerminals(p *cases.Part) int {
-	if p.Kind == cases.MOSFET {
-		return 4
-	}
-	return len(p.Nodes)
-}
-
-// voltageCount returns the number of named voltages the device reports.
-func (d *device) voltageCount() int {
-	switch d.kind {
-	case cases.Diode:
-		return 1
-	default:
-		return 3
-	}
-}
-
 // Node returns the voltage of a node by name (0 for ground); ok is false
 // for an unknown name.
 func (op *OperatingPoint) Node(name string) (v float64, ok bool) {
