@@ -4,7 +4,6 @@ import (
 	"math"
 
 	"tangent/cases"
-	"tangent/mna"
 )
 
 // The tables of an operating point (Nodes, Parts with their terminals
@@ -13,8 +12,8 @@ import (
 
 // resultLayout is what an operating point's tables need beyond the
 // solution, worked out once: which unknown each terminal's voltage and
-// current belong to, which device each part is, how each linear part's
-// current follows from the solution, and which nodes are internal.
+// current belong to, which device each part is, and which nodes are
+// internal.
 type resultLayout struct {
 	terminals int // all parts' terminals
 	voltages  int // all devices' named voltages
@@ -26,8 +25,6 @@ type resultLayout struct {
 	// devices), or −1 for a linear part; and its terminal resistance
 	// (index into the Prepared's), or −1.
 	device, resistance []int32
-	// Per linear part: how its current is computed.
-	current []currentRule
 	// The node unknowns in layout order, and which are internal.
 	nodeUnknown []int32
 	internal    []bool
@@ -48,7 +45,6 @@ func newResultLayout(s *solver, trs []TerminalResistance) resultLayout {
 	t.node, ints = ints[:t.terminals:t.terminals], ints[t.terminals:]
 	t.device, ints = ints[:np:np], ints[np:]
 	t.resistance, ints = ints[:np:np], ints[np:]
-	t.current = make([]currentRule, np)
 	flags := make([]bool, 2*n)
 	named, internal := flags[:n:n], flags[n:]
 	k, tr, at := 0, 0, 0 // next device, terminal resistance, terminal
@@ -68,7 +64,6 @@ func newResultLayout(s *solver, trs []TerminalResistance) resultLayout {
 			idx = d.term[:d.nt] // as in s.sys.Terminals, a missing mosfet body filled in
 		} else {
 			idx = s.sys.Terminals[pi]
-			t.current[pi] = currentRuleOf(s.sys, pi, p)
 		}
 		nt := partTerminals(p)
 		for u := 0; u < nt; u++ {
@@ -109,71 +104,6 @@ func terminalNode(p *cases.Part, u int) string {
 		return p.Nodes[u]
 	}
 	return p.Nodes[min(u, 2)]
-}
-
-// currentRule is how a linear part's current follows from the solution.
-type currentRule struct {
-	kind   uint8   // one of the rule constants below
-	a, b   int32   // unknowns: terminals (resistor, vccs controls) or branch (a)
-	factor float64 // resistance or gain
-}
-
-const (
-	ruleZero        = iota // capacitor: no DC current
-	ruleResistor           // (V(a) − V(b))/factor
-	ruleConductance        // factor·(V(a) − V(b))
-	ruleBranch             // x[a]
-	ruleFixed              // the part's DC value (a current source)
-	ruleScaled             // factor·x[a] (cccs)
-	ruleOther              // anything else: mna.PartCurrent
-)
-
-// currentRuleOf returns the rule for the current of linear part p, the
-// circuit's part number k: the formulas of mna.PartCurrent with the
-// lookups by name done once.
-func currentRuleOf(sys *mna.System, k int, p *cases.Part) currentRule {
-	t := sys.Terminals[k]
-	// A part has a branch current when its kind needs one, or when it
-	// controls another part: mna then puts a sense node, not its own, at
-	// its first terminal. Other parts skip the lookup by name.
-	sense := len(t) > 0 && t[0] >= 0 && sys.Layout.Unknowns[t[0]].Name != p.Nodes[0]
-	if sense || mna.HasBranch(p.Kind) {
-		if b, ok := sys.Layout.Branch(p.Name); ok {
-			return currentRule{kind: ruleBranch, a: int32(b)}
-		}
-	}
-	switch p.Kind {
-	case cases.Resistor:
-		return currentRule{kind: ruleResistor, a: int32(t[0]), b: int32(t[1]), factor: p.Value}
-	case cases.Capacitor:
-		return currentRule{kind: ruleZero}
-	case cases.CurrentSource:
-		return currentRule{kind: ruleFixed}
-	case cases.VCCS:
-		return currentRule{kind: ruleConductance, a: int32(t[2]), b: int32(t[3]), factor: p.Value}
-	case cases.CCCS:
-		if kc, ok := sys.Layout.Branch(p.Control); ok {
-			return currentRule{kind: ruleScaled, a: int32(kc), factor: p.Value}
-		}
-	}
-	return currentRule{kind: ruleOther}
-}
-
-// current returns the part's current at solution x.
-func (r currentRule) current(x []float64) float64 {
-	switch r.kind {
-	case ruleZero:
-		return 0
-	case ruleResistor:
-		return mna.Voltage(x, int(r.a), int(r.b)) / r.factor
-	case ruleConductance:
-		return r.factor * mna.Voltage(x, int(r.a), int(r.b))
-	case ruleBranch:
-		return x[r.a]
-	case ruleScaled:
-		return r.factor * x[r.a]
-	}
-	return math.NaN()
 }
 
 // result builds the operating point from the converged solver state.
@@ -224,15 +154,7 @@ func (p *Prepared) result(attempts []Attempt, iterations int, m Method, helper f
 			volts = volts[nv:]
 			r.Device = dr
 		} else {
-			var i float64
-			switch rule := t.current[pi]; rule.kind {
-			case ruleFixed:
-				i = part.DC // from the part: a sweep changes it
-			case ruleOther:
-				i = s.sys.PartCurrent(pi, part, x)
-			default:
-				i = rule.current(x)
-			}
+			i := s.sys.PartCurrent(pi, part, x)
 			r.Current = i
 			tc[0].Current = i
 			tc[1].Current = -i

@@ -129,9 +129,12 @@ type System struct {
 	// node. (A slice by position, not a map by name: Build is on the
 	// path of every operating point, and a map was a good part of it.)
 	Terminals [][]int
-	G, C      Triplets     // coefficients of the linear parts
-	DC        []float64    // b for the DC values of the independent sources
-	AC        []complex128 // b for the AC values (magnitude·exp(j·phase))
+	G, C      Triplets // coefficients of the linear parts
+	// branch[k] is the branch-current unknown of part k, −1 for none:
+	// PartCurrent's answer without a lookup by name.
+	branch []int
+	DC     []float64    // b for the DC values of the independent sources
+	AC     []complex128 // b for the AC values (magnitude·exp(j·phase))
 }
 
 // senseSuffix names the internal node between a controlling part and its
@@ -157,10 +160,10 @@ func Build(c *cases.Circuit) (*System, error) {
 	}
 	extra := 0 // branch currents and sense nodes
 	for _, p := range c.Parts {
-		if HasBranch(p.Kind) || controls[p.Name] {
+		if hasBranch(p.Kind) || controls[p.Name] {
 			extra++
 		}
-		if controls[p.Name] && !HasBranch(p.Kind) {
+		if controls[p.Name] && !hasBranch(p.Kind) {
 			extra++
 		}
 	}
@@ -200,7 +203,7 @@ func Build(c *cases.Circuit) (*System, error) {
 			}
 			idx[i] = j
 		}
-		if controls[p.Name] && !HasBranch(p.Kind) {
+		if controls[p.Name] && !hasBranch(p.Kind) {
 			name := p.Name + senseSuffix
 			if _, clash := l.Node(name); clash {
 				return nil, fmt.Errorf("mna: internal node %q clashes with a node of the circuit", name)
@@ -209,16 +212,18 @@ func Build(c *cases.Circuit) (*System, error) {
 		}
 		s.Terminals[k] = idx
 	}
-	for _, p := range c.Parts {
-		if HasBranch(p.Kind) || controls[p.Name] {
-			l.AddBranch(p.Name)
+	s.branch = make([]int, len(c.Parts))
+	for k, p := range c.Parts {
+		s.branch[k] = -1
+		if hasBranch(p.Kind) || controls[p.Name] {
+			s.branch[k] = l.AddBranch(p.Name)
 		}
 	}
 	n := l.Size()
 	// Room for the entries stamp writes, ground terminals included.
 	ng, nc := 0, 0
 	for _, p := range c.Parts {
-		if controls[p.Name] && !HasBranch(p.Kind) {
+		if controls[p.Name] && !hasBranch(p.Kind) {
 			ng += 4 // sense branch
 		}
 		switch p.Kind {
@@ -271,10 +276,10 @@ func (s *System) DCSources(c *cases.Circuit, b []float64) {
 	}
 }
 
-// HasBranch reports whether parts of kind k carry a branch current of
+// hasBranch reports whether parts of kind k carry a branch current of
 // their own (a part of another kind gets one only when its current
 // controls another part).
-func HasBranch(k cases.Kind) bool {
+func hasBranch(k cases.Kind) bool {
 	switch k {
 	case cases.VoltageSource, cases.Inductor, cases.VCVS, cases.CCVS:
 		return true
@@ -284,7 +289,7 @@ func HasBranch(k cases.Kind) bool {
 
 // stamp stamps part p, whose terminals are the unknowns t.
 func (s *System) stamp(p *cases.Part, t []int, control bool) error {
-	if control && !HasBranch(p.Kind) {
+	if control && !hasBranch(p.Kind) {
 		// Zero-volt sense source from the real first terminal to the
 		// internal node: its branch current is the part's current.
 		k, _ := s.Layout.Branch(p.Name)
@@ -412,8 +417,8 @@ func at(x []float64, i int) float64 {
 // (capacitors carry none). It returns NaN for a device, whose current the
 // DC solver knows.
 func (s *System) PartCurrent(k int, p *cases.Part, x []float64) float64 {
-	if k, ok := s.Layout.Branch(p.Name); ok {
-		return x[k]
+	if b := s.branch[k]; b >= 0 {
+		return x[b]
 	}
 	t := s.Terminals[k]
 	switch p.Kind {
