@@ -168,56 +168,57 @@ func runSweep(file string, c *cases.Circuit, sp *sweepSpec, asJSON bool, csvFile
 }
 
 // sweepColumns are the quantities of a sweep table: the file's nodes (not
-// the internal ones) and the devices, in the order of the first point.
-func sweepColumns(sw *dc.Sweep) (nodes, devs []string) {
-	op := sw.Points[0]
-	for _, n := range op.Nodes {
-		if !n.Internal {
-			nodes = append(nodes, n.Name)
-		}
-	}
-	for _, p := range op.Parts {
-		if p.Device != nil {
-			devs = append(devs, p.Name)
-		}
-	}
-	return nodes, devs
+// the internal ones) and the devices, as indices into the points' Nodes
+// and Parts. Every point of a sweep has the same tables (one circuit set
+// up once), so the indices of the first point serve them all.
+type sweepColumns struct {
+	nodes, devs []int
 }
 
-// nodeVoltage is the voltage of a node at op (0 for ground).
-func nodeVoltage(op *dc.OperatingPoint, name string) float64 {
-	v, _ := op.Node(name)
-	return v
+func columnsOf(sw *dc.Sweep) sweepColumns {
+	var c sweepColumns
+	op := sw.Points[0]
+	for i, n := range op.Nodes {
+		if !n.Internal {
+			c.nodes = append(c.nodes, i)
+		}
+	}
+	for i, p := range op.Parts {
+		if p.Device != nil {
+			c.devs = append(c.devs, i)
+		}
+	}
+	return c
 }
 
 // writeSweepCSV writes one row per point: the swept value, the node
 // voltages, the device currents (into the first terminal) and the device
 // regions, in SI units at full precision.
 func writeSweepCSV(w io.Writer, sw *dc.Sweep, unit string) error {
-	nodes, devs := sweepColumns(sw)
+	cols, op0 := columnsOf(sw), sw.Points[0]
 	head := []string{sw.Source + " (" + unit + ")"}
-	for _, n := range nodes {
-		head = append(head, "V("+n+") (V)")
+	for _, n := range cols.nodes {
+		head = append(head, "V("+op0.Nodes[n].Name+") (V)")
 	}
-	for _, d := range devs {
-		head = append(head, "I("+d+") (A)")
+	for _, d := range cols.devs {
+		head = append(head, "I("+op0.Parts[d].Name+") (A)")
 	}
-	for _, d := range devs {
-		head = append(head, d+" region")
+	for _, d := range cols.devs {
+		head = append(head, op0.Parts[d].Name+" region")
 	}
 	cw := csv.NewWriter(w)
 	cw.Write(head)
 	g := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 	for i, op := range sw.Points {
 		row := []string{g(sw.Values[i])}
-		for _, n := range nodes {
-			row = append(row, g(nodeVoltage(op, n)))
+		for _, n := range cols.nodes {
+			row = append(row, g(op.Nodes[n].Voltage))
 		}
-		for _, d := range devs {
-			row = append(row, g(op.Part(d).Current))
+		for _, d := range cols.devs {
+			row = append(row, g(op.Parts[d].Current))
 		}
-		for _, d := range devs {
-			row = append(row, op.Part(d).Device.Region)
+		for _, d := range cols.devs {
+			row = append(row, op.Parts[d].Device.Region)
 		}
 		cw.Write(row)
 	}
@@ -230,13 +231,13 @@ func writeSweepCSV(w io.Writer, sw *dc.Sweep, unit string) error {
 // cutoff → forward active between 600 mV and 700 mV", or "Q1: forward
 // active throughout".
 func regionChanges(sw *dc.Sweep, unit string) []string {
-	_, devs := sweepColumns(sw)
 	var out []string
-	for _, d := range devs {
+	for _, k := range columnsOf(sw).devs {
+		d := sw.Points[0].Parts[k].Name
 		changed := false
-		prev := sw.Points[0].Part(d).Device.Region
+		prev := sw.Points[0].Parts[k].Device.Region
 		for i, op := range sw.Points[1:] {
-			r := op.Part(d).Device.Region
+			r := op.Parts[k].Device.Region
 			if r != prev {
 				out = append(out, fmt.Sprintf("%s: %s → %s between %s and %s", d,
 					regionWords(prev), regionWords(r), siString(sw.Values[i], unit), siString(sw.Values[i+1], unit)))
@@ -314,24 +315,24 @@ func printSweep(w io.Writer, file string, sw *dc.Sweep, unit, scale string) {
 			"      ground remains in the answer: some node has nothing else tying it down there\n", helper, n)
 	}
 
-	nodes, devs := sweepColumns(sw)
+	cols := columnsOf(sw)
 	fmt.Fprintln(w, "\nNode voltages and device currents (into the first terminal: collector, drain, anode)")
 	row := []string{sw.Source}
 	right := []bool{true}
-	for _, nd := range nodes {
-		row, right = append(row, "V("+nd+")"), append(right, true)
+	for _, nd := range cols.nodes {
+		row, right = append(row, "V("+op0.Nodes[nd].Name+")"), append(right, true)
 	}
-	for _, d := range devs {
-		row, right = append(row, "I("+d+")"), append(right, true)
+	for _, d := range cols.devs {
+		row, right = append(row, "I("+op0.Parts[d].Name+")"), append(right, true)
 	}
 	rows := [][]string{row}
 	for i, op := range sw.Points {
 		row := []string{formatEng(sw.Values[i], unit)}
-		for _, nd := range nodes {
-			row = append(row, formatEng(nodeVoltage(op, nd), "V"))
+		for _, nd := range cols.nodes {
+			row = append(row, formatEng(op.Nodes[nd].Voltage, "V"))
 		}
-		for _, d := range devs {
-			row = append(row, formatEng(op.Part(d).Current, "A"))
+		for _, d := range cols.devs {
+			row = append(row, formatEng(op.Parts[d].Current, "A"))
 		}
 		rows = append(rows, row)
 	}
