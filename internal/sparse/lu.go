@@ -105,10 +105,10 @@ type LU struct {
 // runs. from must not be factored again while f shares its structure.
 func (f *LU) Restart(from *LU) {
 	floats, changed := f.floats, f.rowChanged
-	if shares(floats, from.floats) {
+	if sameStart(floats, from.floats) {
 		floats = nil
 	}
-	if shares32(changed, from.rowChanged) {
+	if sameStart(changed, from.rowChanged) {
 		changed = nil
 	}
 	*f = *from
@@ -134,12 +134,8 @@ func (f *LU) Restart(from *LU) {
 	f.rowChanged = changed[:f.n]
 }
 
-// shares reports whether a and b start at the same element.
-func shares(a, b []float64) bool {
-	return cap(a) > 0 && cap(b) > 0 && &a[:1][0] == &b[:1][0]
-}
-
-func shares32(a, b []int32) bool {
+// sameStart reports whether a and b start at the same element.
+func sameStart[T any](a, b []T) bool {
 	return cap(a) > 0 && cap(b) > 0 && &a[:1][0] == &b[:1][0]
 }
 
